@@ -1,0 +1,55 @@
+/**
+ * Interpretation warnings: what a practitioner must know before trusting a result.
+ *
+ * Every warning has a stable machine `code` (listed in `WARNING_CODES`, never renamed once
+ * released), a plain-language `message` in the project's grammar (the thing, the likely cause,
+ * the fix), and names the shot, side, branch or layer it concerns.
+ */
+import type { Side } from '../branches/types.js';
+
+export type WarningLevel = 'caution' | 'warning' | 'info';
+
+export interface InterpretationWarning {
+  readonly code: WarningCode;
+  readonly level: WarningLevel;
+  readonly message: string;
+  readonly shot?: string;
+  readonly side?: Side;
+  /** Branch index: 1 = direct wave, n ≥ 2 = head wave along the top of layer n. */
+  readonly branch?: number;
+  /** Layer index, 1 = top layer. */
+  readonly layer?: number;
+  /** Numbers behind the message, in SI units, for programs (e.g. `{ maxHiddenThickness: 3.84 }`). */
+  readonly details?: Readonly<Record<string, number | string | boolean>>;
+}
+
+/**
+ * The registry of warning codes. Adding a code is fine; renaming or removing one breaks users'
+ * scripts and is not.
+ */
+export const WARNING_CODES = {
+  // --- branches and fits
+  'branch-too-few-picks': 'A branch holds fewer picks than a trustworthy fit needs (3 to fit, 4 for a usable standard error).',
+  'branch-poor-fit': 'The picks scatter about the fitted line more than their uncertainty allows, or the branch is curved.',
+  'branch-outlier-picks': 'The robust fit gave some picks almost no weight: they are probably mispicks.',
+  'direct-not-through-origin': 'The direct-wave line does not pass through the origin: time-zero error, trigger delay, wrong source position or a buried shot.',
+  'velocity-unbounded': 'The apparent slowness is so uncertain that the velocity has no upper bound.',
+  'segmentation-constraint-failed': 'The statistically best split of the picks into branches was physically implausible; the next best plausible split is used.',
+  'air-wave-suspected': 'A branch travels at the speed of sound in air: an air blast, not a layer.',
+  'water-table-suspected': 'A branch travels at about 1500 m/s: probably the water table in unconsolidated sediment, not rock.',
+  'user-branch-gap': 'User-assigned branches skip a branch number; the missing layer is taken from other shots or left out.',
+  // --- layering and depths
+  'velocity-inversion-suspected': 'Apparent velocity decreases with offset: a slower layer below a faster one, dip, or a lateral change.',
+  'hidden-layer-possible': 'A layer of intermediate velocity could lie between two interpreted layers without ever giving first arrivals.',
+  'head-wave-precritical': 'A head-wave branch starts nearer the shot than its critical distance: the branch or the model is wrong.',
+  'spread-too-short': 'The spread is too short for the depth claimed (common practice: 3 to 5 times the target depth).',
+  'depth-methods-disagree': 'The intercept-time and crossover-distance depths disagree beyond their uncertainties.',
+  'depth-ill-conditioned': 'Consecutive layer velocities are too close for a stable depth: the linearised standard error is not reliable.',
+  'thickness-not-positive': 'A layer came out with zero or negative thickness: velocity inversion, hidden layer or a wrong branch.',
+  'lateral-variation': 'Depths or velocities differ between shots by more than their uncertainties: dipping or undulating layers.',
+  'missing-layer-branch': 'A shot side shows no branch for a layer seen on other shots.',
+  // --- forward model
+  'model-misfit': 'The interpreted model explains this shot worse than the picks\' uncertainty.',
+} as const;
+
+export type WarningCode = keyof typeof WARNING_CODES;
