@@ -134,7 +134,7 @@ export interface SideSegmentation {
 }
 
 export interface SegmentationNote {
-  readonly code: 'segmentation-constraint-failed' | 'user-branch-gap' | 'fit-refused';
+  readonly code: 'segmentation-constraint-failed' | 'user-branch-gap' | 'fit-refused' | 'outliers-screened';
   readonly message: string;
   readonly branch?: number;
 }

@@ -14,7 +14,8 @@ export function expectWithin(actual: number, expected: number, tolerance: number
 
 /** |actual − expected| ≤ relativeTolerance·|expected|. */
 export function expectRelative(actual: number, expected: number, relativeTolerance: number, source: string): void {
-  const error = Math.abs(actual - expected) / Math.abs(expected);
+  // An expected value of exactly zero can only be matched absolutely.
+  const error = expected === 0 ? Math.abs(actual) : Math.abs(actual - expected) / Math.abs(expected);
   expect(
     Number.isFinite(actual) && error <= relativeTolerance,
     `${source}: got ${actual}, expected ${expected} within ${relativeTolerance * 100}% (off by ${(error * 100).toPrecision(3)}%)`,

@@ -1,0 +1,20 @@
+// Horizontal-layer depths: the intercept-time method and its covariance.
+export { ILL_CONDITIONED_SEPARATION, interceptTimeDepths, interceptTimeRecursion, type InterceptTimeRecursion } from './intercept-time.js';
+
+// The crossover-distance method, crossovers from fitted lines or from the picks, and the comparison of two depth results.
+export {
+  crossoverDistanceDepths,
+  depthsDisagree,
+  fittedCrossovers,
+  observedCrossover,
+  type CrossoverReading,
+  type DepthComparison,
+  type InterceptReading,
+  type SlownessReading,
+} from './crossover-distance.js';
+
+// First-order propagation (J·Σ·Jᵀ) shared by both methods.
+export { branchParameterCovariance, chainJacobians, cumulativeRows, layerDepthsFromThicknesses } from './propagate.js';
+
+// The contract types of the depth stage.
+export type { BranchParameters, DepthMethod, DepthNote, LayerDepths } from './types.js';

@@ -1,0 +1,259 @@
+/**
+ * The interpretation pipeline for plane horizontal layers: a pick set in, the interpretation JSON
+ * out (see `interpretation/shape.ts`).
+ *
+ *   picks ─> shot sides ─> branches (segmentation, line fits) ─> depths under each shot side by the
+ *   intercept-time and crossover-distance methods (± bootstrap) ─> survey layers (weighted means)
+ *   ─> forward model and residuals ─> checks and warnings ─> display units.
+ *
+ * Everything is computed in SI and converted to the survey's display units only when the result
+ * is shaped. The function is pure: the same pick set and options give the same interpretation.
+ */
+import type { PickSet } from './picks/types.js';
+import type { FitMethod, SideSegmentation, SidePicks } from './branches/types.js';
+import type { LayerDepths } from './depth/types.js';
+import type { InterpretationWarning } from './checks/warning.js';
+import type { DisplayScale } from './units.js';
+import { DISPLAY_UNITS } from './units.js';
+import { splitShotSides } from './branches/sides.js';
+import { segmentSide } from './branches/segment.js';
+import { segmentSideRobustly } from './branches/robust-segment.js';
+import { interceptTimeDepths } from './depth/intercept-time.js';
+import { crossoverDistanceDepths, fittedCrossovers, observedCrossover } from './depth/crossover-distance.js';
+import { bootstrapInterceptTimeDepths, type BootstrapDepths } from './depth/bootstrap.js';
+import { branchParameters } from './interpretation/branch-parameters.js';
+import { firstBranchIndices } from './interpretation/branch-identity.js';
+import { combineSideLayers, thicknessesFromDepths, type CombinedLayers } from './interpretation/survey-layers.js';
+import { branchWarnings } from './checks/branch-checks.js';
+import { surveyWarnings, sideWarnings } from './interpretation/survey-checks.js';
+import { forwardResiduals, type ForwardResiduals } from './interpretation/residuals.js';
+import { shapeInterpretation } from './interpretation/present.js';
+import type { Interpretation } from './interpretation/shape.js';
+import type { LayeredModel } from './model/layered-model.js';
+
+export interface InterpretOptions {
+  /** Line-fit method for every branch. Default `least-squares`. */
+  readonly fitMethod?: FitMethod;
+  /** Residual-bootstrap replicates per shot side; 0 (default) skips the bootstrap. */
+  readonly bootstrapReplicates?: number;
+  /** Seed of every random procedure. Default 1. */
+  readonly seed?: number;
+  /** Display units; default the scale the pick table suggests. */
+  readonly scale?: DisplayScale;
+  /** Fewest picks per automatic branch. Default 3. */
+  readonly minPicksPerBranch?: number;
+  /** Most branches per shot side. Default 5. */
+  readonly maxBranches?: number;
+  /** Name of the input (file name), reported in the result. */
+  readonly sourceName?: string;
+  /** Software version written into the result. */
+  readonly softwareVersion?: string;
+}
+
+export const DEFAULT_OPTIONS = {
+  fitMethod: 'least-squares' as FitMethod,
+  bootstrapReplicates: 0,
+  seed: 1,
+  minPicksPerBranch: 3,
+  maxBranches: 5,
+};
+
+/** Time resolution assumed for picks at each scale (s): 0.1 ms engineering, 10 ms crustal (common practice). */
+export const TIME_RESOLUTION: Readonly<Record<DisplayScale, number>> = { engineering: 1e-4, crustal: 1e-2 };
+
+/** One shot side after branches and depths, in SI. */
+export interface SideResult {
+  readonly segmentation: SideSegmentation;
+  /** Branches 1…N without gaps, the stack the depth methods used (empty when a gap stops them). */
+  readonly stackBranchCount: number;
+  readonly interceptTime: LayerDepths | null;
+  readonly crossoverDistance: LayerDepths | null;
+  /** Fitted crossover distance and SE between consecutive stack branches. */
+  readonly fittedCrossovers: readonly ({ readonly distance: number; readonly variance: number } | null)[];
+  readonly bootstrap: BootstrapDepths | null;
+  /** True when the direct-wave slowness came from the survey mean (the side has no direct branch). */
+  readonly borrowedDirect: boolean;
+}
+
+/** The whole interpretation in SI, before shaping. */
+export interface SurveyResult {
+  readonly pickSet: PickSet;
+  readonly sides: readonly SideResult[];
+  readonly combined: CombinedLayers;
+  readonly model: LayeredModel | null;
+  readonly residuals: ForwardResiduals;
+  readonly warnings: readonly InterpretationWarning[];
+}
+
+export function interpret(pickSet: PickSet, options: InterpretOptions = {}): Interpretation {
+  const settings = { ...DEFAULT_OPTIONS, ...withoutUndefined(options) };
+  const scale = options.scale ?? pickSet.suggestedScale;
+  const result = interpretSurvey(pickSet, { ...settings, scale });
+  return shapeInterpretation(result, {
+    units: DISPLAY_UNITS[scale],
+    options: settings,
+    sourceName: options.sourceName ?? null,
+    softwareVersion: options.softwareVersion ?? '0.0.0',
+  });
+}
+
+export function interpretSurvey(
+  pickSet: PickSet,
+  settings: typeof DEFAULT_OPTIONS & { readonly scale: DisplayScale },
+): SurveyResult {
+  const timeResolution = TIME_RESOLUTION[settings.scale];
+  const segmentOptions = {
+    fitMethod: settings.fitMethod,
+    minPicksPerBranch: settings.minPicksPerBranch,
+    maxBranches: settings.maxBranches,
+    timeResolution,
+  };
+  // Robust fits also get a robust split: outlier picks are set aside while the branches are found.
+  const segment = settings.fitMethod === 'least-squares' ? segmentSide : segmentSideRobustly;
+  const firstPass = splitShotSides(pickSet).map((side: SidePicks) => segment(side, segmentOptions));
+  // Off-end shots may start on a head wave: number their branches by the survey's layers.
+  const firstIndices = firstBranchIndices(firstPass, timeResolution);
+  const segmentations = firstPass.map((segmentation, k) =>
+    (firstIndices[k] ?? 1) === (segmentation.branches[0]?.index ?? 1)
+      ? segmentation
+      : segment(segmentation.sidePicks, { ...segmentOptions, firstBranchIndex: firstIndices[k] ?? 1 }),
+  );
+
+  // The survey's direct-wave slowness, for sides that show no direct branch of their own.
+  const directFits = segmentations.flatMap((segmentation) =>
+    segmentation.branches.filter((branch) => branch.index === 1).map((branch) => branchParameters(branch.fit)),
+  );
+  const surveyDirect = combineSideLayers(
+    directFits.map((parameters) => ({ slownesses: [{ slowness: parameters.slowness, variance: parameters.slownessVariance }], depths: [], depthCovariance: [] })),
+  ).slownesses[0] ?? null;
+
+  const sides = segmentations.map((segmentation) => depthsForSide(segmentation, surveyDirect, settings));
+  const combined = combineSideLayers(
+    sides.map((side) => ({
+      slownesses: slownessesByBranch(side.segmentation),
+      depths: side.interceptTime?.depths ?? [],
+      depthCovariance: side.interceptTime?.depthCovariance ?? [],
+    })),
+  );
+  const model = surveyModel(combined);
+  const residuals = forwardResiduals(pickSet, model);
+
+  const warnings: InterpretationWarning[] = [];
+  for (const side of sides) {
+    const { sidePicks } = side.segmentation;
+    for (const branch of side.segmentation.branches) {
+      warnings.push(...branchWarnings({ shot: sidePicks.shot, side: sidePicks.side, branch, sidePicks }, timeResolution));
+    }
+    warnings.push(...sideWarnings(side, model));
+  }
+  warnings.push(...surveyWarnings({ pickSet, sides, combined, model, residuals, timeResolution }));
+  return { pickSet, sides, combined, model, residuals, warnings };
+}
+
+function depthsForSide(
+  segmentation: SideSegmentation,
+  surveyDirect: { value: number; standardError: number } | null,
+  settings: typeof DEFAULT_OPTIONS,
+): SideResult {
+  const byIndex = new Map(segmentation.branches.map((branch) => [branch.index, branch]));
+  const direct = byIndex.get(1);
+  const borrowedDirect = direct === undefined && surveyDirect !== null && segmentation.branches.length > 0;
+  const stack = [];
+  if (direct) stack.push(branchParameters(direct.fit));
+  else if (borrowedDirect && surveyDirect) {
+    stack.push({ slowness: surveyDirect.value, intercept: 0, slownessVariance: surveyDirect.standardError ** 2, interceptVariance: 0, covariance: 0 });
+  }
+  for (let index = 2; stack.length === index - 1 && byIndex.has(index); index += 1) {
+    stack.push(branchParameters(byIndex.get(index)!.fit));
+  }
+  const empty: SideResult = {
+    segmentation,
+    stackBranchCount: stack.length,
+    interceptTime: null,
+    crossoverDistance: null,
+    fittedCrossovers: [],
+    bootstrap: null,
+    borrowedDirect,
+  };
+  if (stack.length < 2) return empty;
+
+  const interceptTime = interceptTimeDepths(stack);
+  const fitted = fittedCrossovers(stack);
+  // The crossover-distance method reads the crossover where the data put it: between the last pick
+  // of one branch and the first of the next (an independent reading, unlike the fitted lines').
+  // Where branches overlap in offset (user-assigned later phases) there is no such reading.
+  // Near the crossover the two branches differ by less than twice the pick scatter σ_t, so a pick
+  // there may sit on either: the reading's variance adds that of a uniform spread over
+  // ±2σ_t/|s_n − s_{n+1}| to the bracket's own uniform variance.
+  const observed = stack.slice(0, -1).map((_, k) => {
+    const lower = byIndex.get(k + 1);
+    const upper = byIndex.get(k + 2);
+    if (!lower || !upper || upper.firstOffset < lower.lastOffset) return null;
+    const bracket = observedCrossover(lower.lastOffset, upper.firstOffset);
+    const scatter = Math.hypot(lower.fit.residualSD, upper.fit.residualSD) / Math.SQRT2;
+    const ambiguity = scatter / Math.abs(lower.fit.slope - upper.fit.slope);
+    const ambiguityVariance = Number.isFinite(ambiguity) ? (2 * ambiguity) ** 2 / 3 : 0;
+    return { distance: bracket.distance, variance: bracket.variance + ambiguityVariance };
+  });
+  const crossoverDistance = observed.every((entry) => entry !== null)
+    ? crossoverDistanceDepths(
+        stack.map((parameters) => ({ slowness: parameters.slowness, variance: parameters.slownessVariance })),
+        observed.map((entry) => ({ distance: entry!.distance, variance: entry!.variance })),
+        { value: stack[0]!.intercept, variance: stack[0]!.interceptVariance },
+      )
+    : null;
+
+  let bootstrap: BootstrapDepths | null = null;
+  if (settings.bootstrapReplicates > 0 && !borrowedDirect) {
+    const { sidePicks } = segmentation;
+    bootstrap = bootstrapInterceptTimeDepths(
+      stack.map((_, k) => {
+        const branch = byIndex.get(k + 1)!;
+        return {
+          offsets: branch.members.map((position) => sidePicks.offsets[position]!),
+          times: branch.members.map((position) => sidePicks.times[position]!),
+          sigmas: sidePicks.sigmas ? branch.members.map((position) => sidePicks.sigmas![position]!) : null,
+          fit: branch.fit,
+        };
+      }),
+      { replicates: settings.bootstrapReplicates, seed: settings.seed },
+    );
+  }
+  return {
+    ...empty,
+    interceptTime,
+    crossoverDistance,
+    fittedCrossovers: fitted,
+    bootstrap,
+  };
+}
+
+function slownessesByBranch(segmentation: SideSegmentation): ({ slowness: number; variance: number } | null)[] {
+  const largest = Math.max(0, ...segmentation.branches.map((branch) => branch.index));
+  const slots: ({ slowness: number; variance: number } | null)[] = new Array(largest).fill(null);
+  for (const branch of segmentation.branches) {
+    slots[branch.index - 1] = { slowness: branch.fit.slope, variance: branch.fit.slopeSE ** 2 };
+  }
+  return slots;
+}
+
+/** The survey's layered model: mean velocities and thicknesses, while both are defined and positive. */
+function surveyModel(combined: CombinedLayers): LayeredModel | null {
+  const velocities: number[] = [];
+  for (const entry of combined.slownesses) {
+    if (entry === null || !(entry.value > 0)) break;
+    velocities.push(1 / entry.value);
+  }
+  if (velocities.length === 0) return null;
+  const { thicknesses } = thicknessesFromDepths(combined.depths, combined.depthCovariance);
+  const usable: number[] = [];
+  for (const thickness of thicknesses.slice(0, velocities.length - 1)) {
+    if (!(thickness > 0)) break;
+    usable.push(thickness);
+  }
+  return { velocities: velocities.slice(0, usable.length + 1), thicknesses: usable };
+}
+
+function withoutUndefined<T extends object>(value: T): Partial<T> {
+  return Object.fromEntries(Object.entries(value).filter(([, entry]) => entry !== undefined)) as Partial<T>;
+}

@@ -1,0 +1,69 @@
+/**
+ * Which layer the nearest branch of each shot side belongs to.
+ *
+ * Automatic segmentation numbers a side's branches 1, 2, … from the shot outwards, which is right
+ * when the nearest picks are the direct wave. An off-end shot whose nearest receiver lies beyond
+ * the direct wave's crossover starts on a head wave instead, and numbering it 1 would fit a
+ * refractor through the origin and average it into the top layer.
+ *
+ * Rule (METHODS §4, constraint 4, used to identify rather than to reject): a side starts with the
+ * direct wave when the free-intercept line through its first branch meets zero offset within
+ * `DIRECT_ORIGIN_SE` standard errors of zero, or within the time resolution. Those sides are the
+ * reference: their branch n is layer n, and the layer's reference slowness is the mean of theirs.
+ * Any other side's first branch is the layer whose reference slowness is nearest in ratio; when
+ * that is layer 1, the branch stays the direct wave (a time-zero or source-position error, which
+ * the `direct-not-through-origin` check reports).
+ *
+ * Edges: user-assigned sides keep their numbers; with no reference side nothing is renumbered; a
+ * side with no branch keeps index 1.
+ */
+import type { SideSegmentation } from '../branches/types.js';
+import { fitBranchMembers } from '../branches/branch-fit.js';
+import { DIRECT_ORIGIN_SE } from '../checks/branch-checks.js';
+
+/** True when the first branch of the side passes through the time origin (see the rule above). */
+export function startsWithDirectWave(segmentation: SideSegmentation, timeResolution: number): boolean {
+  const first = segmentation.branches[0];
+  if (!first || first.index !== 1) return false;
+  const outcome = fitBranchMembers(segmentation.sidePicks, first.members, { method: 'least-squares', throughOrigin: false });
+  if (!outcome.ok) return true;
+  const { intercept, interceptSE } = outcome.fit;
+  return Math.abs(intercept) <= Math.max(DIRECT_ORIGIN_SE * interceptSE, timeResolution);
+}
+
+/** The index the first branch of each side should carry, in input order. */
+export function firstBranchIndices(segmentations: readonly SideSegmentation[], timeResolution: number): number[] {
+  const direct = segmentations.map(
+    (segmentation) => segmentation.assignedBy === 'user' || startsWithDirectWave(segmentation, timeResolution),
+  );
+  const referenceSums: number[] = [];
+  const referenceCounts: number[] = [];
+  segmentations.forEach((segmentation, k) => {
+    if (!direct[k] || segmentation.assignedBy === 'user') return;
+    for (const branch of segmentation.branches) {
+      const slot = branch.index - 1;
+      referenceSums[slot] = (referenceSums[slot] ?? 0) + branch.fit.slope;
+      referenceCounts[slot] = (referenceCounts[slot] ?? 0) + 1;
+    }
+  });
+  const reference = referenceSums.map((sum, slot) => sum / (referenceCounts[slot] ?? 1));
+  return segmentations.map((segmentation, k) => {
+    const first = segmentation.branches[0];
+    if (direct[k] || !first || reference.length === 0) return first?.index ?? 1;
+    // The reported fit of a branch numbered 1 went through the origin; judge the free line instead.
+    const free = fitBranchMembers(segmentation.sidePicks, first.members, { method: 'least-squares', throughOrigin: false });
+    const slope = free.ok ? free.fit.slope : first.fit.slope;
+    if (!(slope > 0)) return first.index;
+    let best = 1;
+    let bestDistance = Number.POSITIVE_INFINITY;
+    reference.forEach((slowness, slot) => {
+      if (!(slowness > 0)) return;
+      const distance = Math.abs(Math.log(slope / slowness));
+      if (distance < bestDistance) {
+        bestDistance = distance;
+        best = slot + 1;
+      }
+    });
+    return best;
+  });
+}

@@ -1,0 +1,230 @@
+/**
+ * The interpretation: the JSON contract shared by the CLI (`--json`) and the HTTP API.
+ *
+ * One schema gives both the TypeScript type and the runtime check, and `interpretationJsonSchema()`
+ * turns it into a JSON Schema for users' own tools. Keys are camelCase. Every number is in the
+ * survey's display units, stated once in `units` (engineering: m, ms, m/s; crustal: km, s, km/s);
+ * slownesses are not exposed — velocities are. Standard errors are one standard deviation.
+ * `null` means "not available" and is always explained by a warning or by the field's doc.
+ *
+ * Versioning: `schemaVersion` increases when a field is removed or changes meaning; new fields may
+ * be added without a bump.
+ */
+import * as z from 'zod';
+
+const num = z.number();
+const nullableNumber = z.number().nullable();
+
+export const UnitsSchema = z.strictObject({
+  scale: z.enum(['engineering', 'crustal']),
+  distance: z.enum(['m', 'km']),
+  time: z.enum(['ms', 's']),
+  velocity: z.enum(['m/s', 'km/s']),
+});
+
+/** How a value was obtained: the method in words and the bibliography keys behind it. */
+export const ProvenanceSchema = z.strictObject({
+  method: z.string(),
+  references: z.array(z.string()),
+});
+
+export const LayerSchema = z.strictObject({
+  /** 1 = top layer; the last layer is the half-space (no thickness). */
+  index: z.number().int().min(1),
+  velocity: num,
+  velocitySE: num,
+  /** null for the half-space. */
+  thickness: nullableNumber,
+  thicknessSE: nullableNumber,
+  /** Depth below ground to the top of this layer (0 for layer 1). */
+  depthToTop: num,
+  depthToTopSE: num,
+  /** How many shot sides saw this layer's branch. */
+  shotSides: z.number().int().min(0),
+  velocityFrom: ProvenanceSchema,
+  depthFrom: ProvenanceSchema,
+});
+
+export const PickResultSchema = z.strictObject({
+  /** Line of the pick table. */
+  line: z.number().int(),
+  receiver: z.string().nullable(),
+  receiverX: num,
+  offset: num,
+  time: num,
+  /** Observed minus fitted branch line. */
+  fitResidual: num,
+  /** Weight the robust fit gave the pick (1 = full), null for least squares. */
+  robustWeight: nullableNumber,
+});
+
+export const BranchResultSchema = z.strictObject({
+  /** 1 = direct wave; n ≥ 2 = head wave along the top of layer n. */
+  index: z.number().int().min(1),
+  assignedBy: z.enum(['automatic', 'user']),
+  pickCount: z.number().int(),
+  firstOffset: num,
+  lastOffset: num,
+  apparentVelocity: num,
+  apparentVelocitySE: num,
+  /** 95 % interval from the Student-t slope interval; null when the velocity is unbounded. */
+  apparentVelocityInterval95: z.tuple([num, num]).nullable(),
+  interceptTime: num,
+  interceptTimeSE: num,
+  /** Correlation of slope and intercept (strongly negative for a branch far from the origin). */
+  slopeInterceptCorrelation: nullableNumber,
+  residualSD: num,
+  /** Σ(r/σ)² when picks carry sigma, else null. */
+  chiSquare: nullableNumber,
+  degreesOfFreedom: z.number().int(),
+  fitMethod: z.enum(['least-squares', 'theil-sen', 'huber']),
+  weighted: z.boolean(),
+  throughOrigin: z.boolean(),
+  picks: z.array(PickResultSchema),
+});
+
+export const CrossoverSchema = z.strictObject({
+  /** Branch indices either side of the crossover. */
+  lowerBranch: z.number().int(),
+  upperBranch: z.number().int(),
+  /** Intersection of the two fitted lines. */
+  fitted: nullableNumber,
+  fittedSE: nullableNumber,
+  /** Last pick of the lower branch and first pick of the upper: where the data say it lies. */
+  observedBracket: z.tuple([num, num]),
+});
+
+export const InterfaceDepthSchema = z.strictObject({
+  /** Interface k is the top of layer k+1. */
+  interface: z.number().int().min(1),
+  thickness: num,
+  thicknessSE: num,
+  depth: num,
+  depthSE: num,
+});
+
+export const BootstrapDepthSchema = z.strictObject({
+  interface: z.number().int().min(1),
+  depthSE: num,
+  low95: num,
+  high95: num,
+  replicates: z.number().int(),
+  droppedReplicates: z.number().int(),
+});
+
+export const ShotSideSchema = z.strictObject({
+  side: z.enum(['forward', 'reverse']),
+  pickCount: z.number().int(),
+  excludedPickCount: z.number().int(),
+  assignedBy: z.enum(['automatic', 'user']),
+  branches: z.array(BranchResultSchema),
+  crossovers: z.array(CrossoverSchema),
+  /** Depth below the source by each method (plane horizontal layers under this shot side). */
+  depths: z.strictObject({
+    interceptTime: z.array(InterfaceDepthSchema),
+    crossoverDistance: z.array(InterfaceDepthSchema),
+    bootstrap: z.array(BootstrapDepthSchema).nullable(),
+  }),
+  /** Model selection: every branch count tried (empty when the user assigned the branches). */
+  segmentation: z.array(
+    z.strictObject({
+      branchCount: z.number().int(),
+      bic: num,
+      residualSumOfSquares: num,
+      failedConstraint: z.string().nullable(),
+      chosen: z.boolean(),
+    }),
+  ),
+});
+
+export const ShotSchema = z.strictObject({
+  id: z.string(),
+  sourceX: num,
+  sourceElevation: nullableNumber,
+  sourceDepth: nullableNumber,
+  sides: z.array(ShotSideSchema),
+});
+
+export const RefractorSchema = z.strictObject({
+  /** Interface k is the top of layer k+1. */
+  interface: z.number().int().min(1),
+  method: z.string(),
+  references: z.array(z.string()),
+  points: z.array(
+    z.strictObject({
+      x: num,
+      depth: num,
+      depthSE: num,
+      /** Ground elevation minus depth, when elevations were given. */
+      elevation: nullableNumber,
+      shot: z.string().nullable(),
+      side: z.enum(['forward', 'reverse']).nullable(),
+    }),
+  ),
+});
+
+export const ResidualsSchema = z.strictObject({
+  /** What the picks were compared with. */
+  model: z.string(),
+  overallRms: nullableNumber,
+  perShot: z.array(
+    z.strictObject({
+      shot: z.string(),
+      pickCount: z.number().int(),
+      rms: nullableNumber,
+      /** χ²/ν against the picks' sigmas, when every pick of the shot has one. */
+      reducedChiSquare: nullableNumber,
+    }),
+  ),
+});
+
+export const WarningSchema = z.strictObject({
+  code: z.string(),
+  level: z.enum(['caution', 'warning', 'info']),
+  message: z.string(),
+  shot: z.string().optional(),
+  side: z.enum(['forward', 'reverse']).optional(),
+  branch: z.number().int().optional(),
+  layer: z.number().int().optional(),
+  details: z.record(z.string(), z.union([z.number(), z.string(), z.boolean()])).optional(),
+});
+
+export const InterpretationSchema = z.strictObject({
+  schemaVersion: z.literal(1),
+  software: z.strictObject({ name: z.literal('slopebreak'), version: z.string() }),
+  source: z.string().nullable(),
+  units: UnitsSchema,
+  options: z.strictObject({
+    fitMethod: z.enum(['least-squares', 'theil-sen', 'huber']),
+    bootstrapReplicates: z.number().int().min(0),
+    seed: z.number().int(),
+    minPicksPerBranch: z.number().int(),
+    maxBranches: z.number().int(),
+  }),
+  summary: z.strictObject({
+    shotCount: z.number().int(),
+    pickCount: z.number().int(),
+    excludedPickCount: z.number().int(),
+    shotSideCount: z.number().int(),
+    layerCount: z.number().int(),
+  }),
+  layers: z.array(LayerSchema),
+  shots: z.array(ShotSchema),
+  refractors: z.array(RefractorSchema),
+  residuals: ResidualsSchema,
+  warnings: z.array(WarningSchema),
+  cautions: z.array(z.string()),
+  references: z.array(z.strictObject({ key: z.string(), citation: z.string() })),
+});
+
+export type Interpretation = z.infer<typeof InterpretationSchema>;
+export type LayerResult = z.infer<typeof LayerSchema>;
+export type ShotResult = z.infer<typeof ShotSchema>;
+export type ShotSideResult = z.infer<typeof ShotSideSchema>;
+export type BranchResult = z.infer<typeof BranchResultSchema>;
+export type RefractorResult = z.infer<typeof RefractorSchema>;
+
+/** The JSON Schema (draft 2020-12) of the interpretation, for users' own validators. */
+export function interpretationJsonSchema(): unknown {
+  return z.toJSONSchema(InterpretationSchema);
+}

@@ -1,0 +1,167 @@
+#!/usr/bin/env node
+/**
+ * The slopebreak command line.
+ *
+ *   slopebreak interpret FILE [--json] [--robust | --fit METHOD] [--bootstrap N] [--seed S]
+ *                             [--scale engineering|crustal]
+ *   slopebreak schema            print the JSON Schema of the interpretation
+ *   slopebreak --help | --version
+ *
+ * Exit codes: 0 success; 1 the input was refused (its problems are on stderr); 2 usage error;
+ * 3 internal error (a bug).
+ */
+import { readFileSync, realpathSync, statSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { basename } from 'node:path';
+import { parseArgs } from 'node:util';
+import { readPickTable } from '../lib/picks/index.js';
+import { formatProblem } from '../lib/problems.js';
+import { interpret } from '../lib/interpret.js';
+import { interpretationJsonSchema } from '../lib/interpretation/shape.js';
+import type { FitMethod } from '../lib/branches/types.js';
+import { formatSummary } from './summary.js';
+import { softwareVersion } from './version.js';
+
+const USAGE = `slopebreak — seismic-refraction interpretation
+
+usage:
+  slopebreak interpret FILE [options]   interpret a pick table (CSV) and print a summary
+  slopebreak schema                     print the JSON Schema of the interpretation
+  slopebreak --version | --help
+
+interpret options:
+  --json                 print the interpretation as JSON (the documented shape) instead
+  --robust               fit branches with the Huber M-estimate (outlier picks down-weighted)
+  --fit METHOD           least-squares (default), huber or theil-sen
+  --bootstrap N          add residual-bootstrap depth intervals from N replicates (e.g. 2000)
+  --seed S               seed of the bootstrap (default 1)
+  --scale SCALE          engineering (m, ms, m/s) or crustal (km, s, km/s); default from the table
+  --max-branches N       most branches per shot side (default 5)
+  --min-picks N          fewest picks per automatic branch (default 3)
+`;
+
+class UsageError extends Error {}
+
+function positiveInteger(value: string | undefined, option: string, minimum: number): number | undefined {
+  if (value === undefined) return undefined;
+  if (!/^\d+$/.test(value) || Number(value) < minimum) {
+    throw new UsageError(`${option} takes a whole number of at least ${minimum}, got "${value}"`);
+  }
+  return Number(value);
+}
+
+function runInterpret(args: readonly string[]): number {
+  const { values, positionals } = parseArgs({
+    args: [...args],
+    allowPositionals: true,
+    options: {
+      json: { type: 'boolean' },
+      robust: { type: 'boolean' },
+      fit: { type: 'string' },
+      bootstrap: { type: 'string' },
+      seed: { type: 'string' },
+      scale: { type: 'string' },
+      'max-branches': { type: 'string' },
+      'min-picks': { type: 'string' },
+    },
+  });
+  if (positionals.length !== 1) throw new UsageError('interpret takes exactly one pick-table file');
+  const file = positionals[0]!;
+  const fitNames: readonly FitMethod[] = ['least-squares', 'huber', 'theil-sen'];
+  if (values.fit !== undefined && !fitNames.includes(values.fit as FitMethod)) {
+    throw new UsageError(`--fit takes one of ${fitNames.join(', ')}, got "${values.fit}"`);
+  }
+  if (values.robust && values.fit !== undefined && values.fit !== 'huber') {
+    throw new UsageError('--robust means --fit huber; give one or the other');
+  }
+  if (values.scale !== undefined && values.scale !== 'engineering' && values.scale !== 'crustal') {
+    throw new UsageError(`--scale takes engineering or crustal, got "${values.scale}"`);
+  }
+  const fitMethod: FitMethod = values.robust ? 'huber' : ((values.fit as FitMethod | undefined) ?? 'least-squares');
+  const bootstrapReplicates = positiveInteger(values.bootstrap, '--bootstrap', 1) ?? 0;
+  const seed = positiveInteger(values.seed, '--seed', 0) ?? 1;
+  const maxBranches = positiveInteger(values['max-branches'], '--max-branches', 1);
+  const minPicksPerBranch = positiveInteger(values['min-picks'], '--min-picks', 2);
+
+  let bytes: Buffer;
+  try {
+    if (!statSync(file).isFile()) throw new Error('not a regular file');
+    bytes = readFileSync(file);
+  } catch (error) {
+    process.stderr.write(`slopebreak: cannot read ${file}: ${(error as Error).message}; check the path\n`);
+    return 1;
+  }
+  const outcome = readPickTable(bytes);
+  if (!outcome.ok) {
+    process.stderr.write(`slopebreak: ${file} was refused (${outcome.problems.length} problem(s)); nothing was interpreted:\n`);
+    for (const problem of outcome.problems) process.stderr.write(`  ${file}: ${formatProblem(problem)}\n`);
+    return 1;
+  }
+  for (const warning of outcome.warnings) process.stderr.write(`slopebreak: note: ${file}: ${formatProblem(warning)}\n`);
+  const result = interpret(outcome.value, {
+    fitMethod,
+    bootstrapReplicates,
+    seed,
+    scale: values.scale as 'engineering' | 'crustal' | undefined,
+    maxBranches,
+    minPicksPerBranch,
+    sourceName: basename(file),
+    softwareVersion: softwareVersion(),
+  });
+  process.stdout.write(values.json ? `${JSON.stringify(result, null, 2)}\n` : formatSummary(result));
+  return 0;
+}
+
+export function main(argv: readonly string[]): number {
+  const [command, ...rest] = argv;
+  try {
+    switch (command) {
+      case 'interpret':
+        return runInterpret(rest);
+      case 'schema':
+        process.stdout.write(`${JSON.stringify(interpretationJsonSchema(), null, 2)}\n`);
+        return 0;
+      case '--version':
+      case '-v':
+        process.stdout.write(`${softwareVersion()}\n`);
+        return 0;
+      case undefined:
+      case '--help':
+      case '-h':
+      case 'help':
+        process.stdout.write(USAGE);
+        return command === undefined ? 2 : 0;
+      default:
+        throw new UsageError(`unknown command "${command}"`);
+    }
+  } catch (error) {
+    if (error instanceof UsageError || (error as { code?: string }).code?.startsWith('ERR_PARSE_ARGS')) {
+      process.stderr.write(`slopebreak: ${(error as Error).message}\n\n${USAGE}`);
+      return 2;
+    }
+    throw error;
+  }
+}
+
+function invokedDirectly(): boolean {
+  const script = process.argv[1];
+  if (script === undefined) return false;
+  try {
+    return realpathSync(script) === realpathSync(fileURLToPath(import.meta.url));
+  } catch {
+    return false;
+  }
+}
+
+if (invokedDirectly()) {
+  try {
+    process.exitCode = main(process.argv.slice(2));
+  } catch (error) {
+    // A programming error: say so plainly, with what a bug report needs, and exit non-zero.
+    process.stderr.write(
+      `slopebreak: internal error (${(error as Error).message}); this is a bug, please report it with the input file\n` +
+        `${(error as Error).stack ?? ''}\n`,
+    );
+    process.exitCode = 3;
+  }
+}

@@ -1,0 +1,93 @@
+/**
+ * Writes the invented demo surveys in sample-surveys/ (run: npm run build && node
+ * dist/tests/tools/make-sample-surveys.js). First arrivals come from the test-side ray-geometry
+ * oracle (explicit ray paths through plane horizontal layers), plus seeded Gaussian pick noise,
+ * rounded as a seismograph display would be. Demo data only: no test treats these as truth
+ * beyond the golden-file regression guard.
+ */
+import { writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { firstArrivalByRays } from '../oracles/ray-geometry.js';
+import { seededNormal } from '../../lib/random.js';
+
+interface Scenario {
+  readonly file: string;
+  readonly title: string[];
+  readonly velocities: readonly number[];
+  readonly thicknesses: readonly number[];
+  readonly receivers: readonly number[];
+  readonly shots: readonly { id: string; x: number }[];
+  readonly noiseMs: number;
+  readonly sigmaMs: number;
+  readonly receiverIds: boolean;
+  readonly seed: number;
+}
+
+const range = (count: number, first: number, step: number) => Array.from({ length: count }, (_, k) => first + k * step);
+
+const SCENARIOS: readonly Scenario[] = [
+  {
+    file: 'millbrook-quarry-bedrock.csv',
+    title: [
+      'Millbrook quarry extension, seismic line A (invented demo survey)',
+      'Soil over glacial till over granite; 48 geophones at 1.5 m, five shots (two off-end).',
+    ],
+    velocities: [420, 1350, 4300],
+    thicknesses: [2.5, 7.5],
+    receivers: range(48, 1.5, 1.5),
+    shots: [
+      { id: 'A-OFF-W', x: -12 },
+      { id: 'A-W', x: 0 },
+      { id: 'A-MID', x: 36.75 },
+      { id: 'A-E', x: 73.5 },
+      { id: 'A-OFF-E', x: 85.5 },
+    ],
+    noiseMs: 0.25,
+    sigmaMs: 0.3,
+    receiverIds: false,
+    seed: 20261,
+  },
+  {
+    file: 'fenwick-meadow-water-table.csv',
+    title: [
+      'Fenwick Meadow pumping-station site, line 2 (invented demo survey)',
+      'Dry sand over water-saturated sand over shale; 36 geophones at 2 m, three shots.',
+    ],
+    velocities: [480, 1520, 2900],
+    thicknesses: [3.2, 8.0],
+    receivers: range(36, 1, 2),
+    shots: [
+      { id: 'F1', x: 0 },
+      { id: 'F2', x: 36 },
+      { id: 'F3', x: 72 },
+    ],
+    noiseMs: 0.3,
+    sigmaMs: 0.35,
+    receiverIds: true,
+    seed: 20262,
+  },
+];
+
+function writeScenario(scenario: Scenario, folder: string): void {
+  const noise = seededNormal(scenario.seed);
+  const header = scenario.receiverIds
+    ? 'shot,receiver,source_x_m,receiver_x_m,time_ms,sigma_ms'
+    : 'shot,source_x_m,receiver_x_m,time_ms,sigma_ms';
+  const lines = [...scenario.title.map((line) => `# ${line}`), header];
+  for (const shot of scenario.shots) {
+    scenario.receivers.forEach((receiverX, k) => {
+      const offset = Math.abs(receiverX - shot.x);
+      if (offset === 0) return;
+      const { time } = firstArrivalByRays(scenario.velocities, scenario.thicknesses, offset);
+      const picked = Math.max(0, time * 1000 + scenario.noiseMs * noise());
+      const cells = [shot.id];
+      if (scenario.receiverIds) cells.push(`G${String(k + 1).padStart(2, '0')}`);
+      cells.push(String(shot.x), String(receiverX), picked.toFixed(2), String(scenario.sigmaMs));
+      lines.push(cells.join(','));
+    });
+  }
+  writeFileSync(join(folder, scenario.file), `${lines.join('\n')}\n`);
+}
+
+const folder = process.argv[2] ?? 'sample-surveys';
+for (const scenario of SCENARIOS) writeScenario(scenario, folder);
