@@ -27,10 +27,15 @@ export const REFERENCES = {
   Schwarz1978: 'Schwarz G. 1978. Estimating the dimension of a model. Annals of Statistics 6.',
   Sen1968: "Sen P.K. 1968. Estimates of the regression coefficient based on Kendall's tau. Journal of the American Statistical Association 63.",
   Sheriff1995: 'Sheriff R.E., Geldart L.P. 1995. Exploration Seismology, 2nd ed.',
+  Shafranovich2005: 'Shafranovich Y. 2005. Common Format and MIME Type for Comma-Separated Values (CSV) Files. RFC 4180, IETF.',
   Soske1959: 'Soske J.L. 1959. The blind zone problem in engineering geophysics. Geophysics 24.',
   Telford1990: 'Telford W.M., Geldart L.P., Sheriff R.E. 1990. Applied Geophysics, 2nd ed.',
+  Thompson2008: 'Thompson A., Taylor B.N. 2008. Guide for the Use of the International System of Units (SI). NIST Special Publication 811.',
   Theil1950: 'Theil H. 1950. A rank-invariant method of linear and polynomial regression analysis I–III. Proceedings of the Koninklijke Nederlandse Akademie van Wetenschappen 53.',
   VijayaRaghava1979: 'Vijaya Raghava M.S., Nanda Kumar G. 1979. The blind-zone problem in multiple refraction-layer overburden situations. Geophysical Prospecting 27.',
+  Yergeau2003: 'Yergeau F. 2003. UTF-8, a transformation format of ISO 10646. RFC 3629, IETF.',
+  Friedman1991: 'Friedman J.H. 1991. Multivariate adaptive regression splines. Annals of Statistics 19.',
+  KassRaftery1995: 'Kass R.E., Raftery A.E. 1995. Bayes factors. Journal of the American Statistical Association 90.',
 } as const;
 
 export type ReferenceKey = keyof typeof REFERENCES;

@@ -109,7 +109,7 @@ export const PICK_TABLE_COLUMNS: readonly PickTableColumn[] = [
   column('receiverLon', 'receiver_lon', 'degrees', 'geographic', 'receiver longitude, decimal degrees WGS84', LONGITUDE),
   column('time', 'time', 'time', 'required', 'first-arrival time after the shot instant', atLeast(0, true, 'time-negative')),
   column('sigma', 'sigma', 'time', 'optional', 'pick uncertainty, one standard deviation', atLeast(0, false, 'sigma-not-positive')),
-  column('branch', 'branch', 'branch', 'optional', 'user-assigned branch: 1 = direct wave, 2 = first refractor, ...; empty = automatic; x = pick excluded'),
+  column('branch', 'branch', 'branch', 'optional', 'user-assigned branch (1 = direct wave, 2 = first refractor, ...; empty = automatic; x = pick excluded)'),
   column('sourceElevation', 'source_elev', 'length', 'optional', 'ground elevation at the source'),
   column('receiverElevation', 'receiver_elev', 'length', 'optional', 'ground elevation at the receiver'),
   column('sourceDepth', 'source_depth', 'length', 'optional', 'shot depth below ground (shot holes)', atLeast(0, true, 'source-depth-negative')),

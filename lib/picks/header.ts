@@ -73,24 +73,44 @@ export function readHeader(fields: readonly string[], line: number, problems: Pr
     const place = { line, column: position, field: name };
     cells.push(null);
     if (name === '') {
-      problems.error('header-name-empty', place, `header column ${position} has no name`, `name the column (e.g. ${spellings('time')}) or delete the empty column from every row`);
+      problems.error(
+        'header-name-empty',
+        place,
+        `header column ${position} has no name`,
+        `name the column (e.g. ${spellings('time')}) or delete the empty column from every row`,
+      );
       return;
     }
     const identity = identifyColumn(name);
     if (identity.status === 'unknown') {
-      problems.warning('column-unknown', place, `column ${quoted(name)} is not a pick-table column and is ignored`, `rename it to a pick-table column if it holds one (e.g. ${spellings('time')}), or delete it to silence this warning`);
+      problems.warning(
+        'column-unknown',
+        place,
+        `column ${quoted(name)} is not a pick-table column and is ignored`,
+        `rename it to a pick-table column if it holds one (e.g. ${spellings('time')}), or delete it to silence this warning`,
+      );
       return;
     }
     if (identity.status === 'unit-missing') {
       misnamed.add(identity.column.quantity);
-      problems.error('column-unit-missing', place, `column ${quoted(name)} does not say its unit`, `name it ${spellings(identity.column.quantity)}`);
+      problems.error(
+        'column-unit-missing',
+        place,
+        `column ${quoted(name)} does not say its unit`,
+        `name it ${spellings(identity.column.quantity)}`,
+      );
       return;
     }
     if (identity.status === 'unit-unknown') {
       misnamed.add(identity.column.quantity);
       const accepted = spellings(identity.column.quantity);
       const cause = identity.column.names.length === 1 ? `${identity.column.stem} takes no unit suffix` : `the unit ${quoted(identity.suffix)} is not accepted`;
-      problems.error('column-unit-unknown', place, `column ${quoted(name)} (${identity.column.meaning}): ${cause}`, `name it ${accepted}, converting the values if needed`);
+      problems.error(
+        'column-unit-unknown',
+        place,
+        `column ${quoted(name)} (${identity.column.meaning}): ${cause}`,
+        `name it ${accepted}, converting the values if needed`,
+      );
       return;
     }
     const entry: HeaderColumn = { column: identity.column, position, name, unit: identity.unit, scale: identity.scale };
@@ -111,7 +131,12 @@ export function readHeader(fields: readonly string[], line: number, problems: Pr
   const whole = { line, column: null };
   for (const quantity of ['shot', 'time'] as const) {
     if (!byQuantity.has(quantity) && !misnamed.has(quantity)) {
-      problems.error('column-missing', whole, lacking(quantity), `add a column named ${spellings(quantity)}; ${HEADER_HINT}`);
+      problems.error(
+        'column-missing',
+        whole,
+        lacking(quantity),
+        `add a column named ${spellings(quantity)}; ${HEADER_HINT}`,
+      );
     }
   }
   const coordinateSystem = checkPositions(byQuantity, misnamed, line, problems);
@@ -155,11 +180,21 @@ function checkPositions(
       const longitude = byQuantity.get(`${end}Lon`);
       const given = latitude ?? longitude;
       if (given === undefined && !misnamed.has(`${end}Lat`) && !misnamed.has(`${end}Lon`)) {
-        problems.error('column-missing', whole, `the header has no ${end} position: the table uses latitude/longitude, but has no ${end}_lat and ${end}_lon columns`, `add ${end}_lat and ${end}_lon columns (decimal degrees WGS84)`);
+        problems.error(
+          'column-missing',
+          whole,
+          `the header has no ${end} position: the table uses latitude/longitude, but has no ${end}_lat and ${end}_lon columns`,
+          `add ${end}_lat and ${end}_lon columns (decimal degrees WGS84)`,
+        );
       } else if (given !== undefined && (latitude === undefined || longitude === undefined)) {
         if (misnamed.has(latitude === undefined ? `${end}Lat` : `${end}Lon`)) continue;
         const partner = latitude === undefined ? `${end}_lat` : `${end}_lon`;
-        problems.error('coordinates-incomplete', { line, column: given.position, field: given.name }, `column ${quoted(given.name)} has no partner ${partner}: a geographic position needs both latitude and longitude`, `add a ${partner} column, or give positions along the line instead`);
+        problems.error(
+          'coordinates-incomplete',
+          { line, column: given.position, field: given.name },
+          `column ${quoted(given.name)} has no partner ${partner}: a geographic position needs both latitude and longitude`,
+          `add a ${partner} column, or give positions along the line instead`,
+        );
       }
     }
     return 'geographic';
@@ -167,7 +202,12 @@ function checkPositions(
   for (const quantity of ['sourceX', 'receiverX'] as const) {
     if (!byQuantity.has(quantity) && !misnamed.has(quantity)) {
       const end = quantity === 'sourceX' ? 'source' : 'receiver';
-      problems.error('column-missing', whole, lacking(quantity), `add a column named ${spellings(quantity)} (or give positions as ${end}_lat and ${end}_lon); ${HEADER_HINT}`);
+      problems.error(
+        'column-missing',
+        whole,
+        lacking(quantity),
+        `add a column named ${spellings(quantity)} (or give positions as ${end}_lat and ${end}_lon); ${HEADER_HINT}`,
+      );
     }
   }
   return 'line';

@@ -114,7 +114,8 @@ function invalidUtf8Lines(bytes: Uint8Array): { readonly line: number; readonly 
  * The input as text, without a leading byte-order mark; null after reporting `encoding-invalid`
  * problems (one per line) when bytes are not UTF-8 or a text holds lone UTF-16 surrogates.
  *
- * Edges: only one leading BOM is removed (a second is a character of the first field); bytes are
+ * Edges: only one leading BOM is removed here (a further U+FEFF is whitespace to ECMAScript's
+ * `trim`, so the field splitter drops it from around a cell); bytes are
  * decoded with the platform's `TextDecoder` in fatal mode, and located byte by byte only when it
  * refuses them.
  */

@@ -4,10 +4,10 @@
  * `Number()` alone accepts too much for a measurement cell: it turns "" and " " into 0, reads
  * "0x10" as 16, "Infinity" as a value, and "1e999" as Infinity. A pick-table cell must instead
  * be a plain decimal: an optional sign, digits with at most one decimal point (at least one
- * digit), and an optional exponent (`e` or `E`, optional sign, digits), as in the grammar of
- * decimal literals shared by JSON (RFC 8259) and most spreadsheets' CSV export (common practice).
- * Leading zeros, `5.` and `.5` are accepted; thousands separators, decimal commas, hexadecimal,
- * `NaN` and `Infinity` are not.
+ * digit), and an optional exponent (`e` or `E`, optional sign, digits) — ECMAScript's
+ * StrDecimalLiteral without `Infinity` and without surrounding whitespace. Leading zeros, `5.`
+ * and `.5` are accepted; thousands separators, decimal commas, hexadecimal, `NaN` and `Infinity`
+ * are not.
  *
  * Unit conversion works on the decimal, not on the rounded double: a cell of `12.3` in a `_ms`
  * column becomes the double nearest to 0.0123 s (the cell's exponent is shifted by −3 before the
@@ -64,9 +64,10 @@ interface DecimalParts {
 const EXPONENT_CLAMP = 1e10;
 
 /**
- * Mantissas longer than this are scaled by a double multiplication instead of exact integer
- * arithmetic, which keeps a pathological cell of a million digits from costing quadratic time.
- * No measurement carries 400 digits; 17 significant digits already identify any double.
+ * A mantissa written with more characters than this is scaled by a double multiplication (two
+ * roundings) instead of exact integer arithmetic, so a pathological cell of a million digits
+ * costs no quadratic BigInt parse. No measurement carries 400 digits; 17 significant digits
+ * already identify any double.
  */
 const EXACT_PRODUCT_DIGITS = 400;
 

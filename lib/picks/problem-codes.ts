@@ -40,7 +40,7 @@ export const PICK_TABLE_PROBLEM_CODES = {
   'longitude-out-of-range': 'A longitude outside −180 (inclusive) to 360 (exclusive) degrees.',
   'branch-invalid': 'A branch cell that is neither a positive whole number, x, nor empty.',
   // --- across rows
-  'pick-duplicate': 'Two rows pick the same receiver for the same shot.',
+  'pick-duplicate': 'Two rows pick the same receiver for the same shot and the same branch.',
   'shot-too-few-picks': 'A shot has fewer than three picks in all.',
   'shot-source-inconsistent': 'Rows of one shot give different source positions, elevations, depths or uphole times.',
 } as const;

@@ -8,6 +8,7 @@ import { readHeader, type HeaderColumn, type HeaderLayout } from './header.js';
 import { checkInputSize, decodeInputText } from './input-text.js';
 import { LineScanner } from './lines.js';
 import { readDecimal, writeDecimal, type NumberFault } from './numbers.js';
+import type { PickTableQuantity } from './columns.js';
 import type { PickTableProblemCode } from './problem-codes.js';
 import { ProblemList, quoted, type ProblemPlace } from './problem-list.js';
 import type { CoordinateSystem, Pick, PickSet } from './types.js';
@@ -84,7 +85,12 @@ function readCell(text: string, cell: HeaderColumn, draft: PickDraft, problems: 
   const line = draft.line;
   if (text === '') {
     if (column.need === 'optional') return true;
-    problems.error('cell-empty', cellPlace(line, cell), `the ${column.meaning} (${quoted(cell.name)}) is empty`, 'fill the cell, or delete the row');
+    problems.error(
+      'cell-empty',
+      cellPlace(line, cell),
+      `the ${column.meaning} (${quoted(cell.name)}) is empty`,
+      'fill the cell, or delete the row',
+    );
     return false;
   }
   if (column.kind === 'text') {
@@ -105,7 +111,12 @@ function readCell(text: string, cell: HeaderColumn, draft: PickDraft, problems: 
     const aboveLowest = range.lowestIncluded ? value >= range.lowest : value > range.lowest;
     const belowHighest = range.highestIncluded ? value <= range.highest : value < range.highest;
     if (!aboveLowest || !belowHighest) {
-      problems.error(range.code, cellPlace(line, cell), `${cell.name} ${quoted(text)}: the ${column.meaning} ${range.rule}`, RANGE_FIXES[range.code] ?? 'correct the value');
+      problems.error(
+        range.code,
+        cellPlace(line, cell),
+        `${cell.name} ${quoted(text)}: the ${column.meaning} ${range.rule}`,
+        RANGE_FIXES[range.code] ?? 'correct the value',
+      );
       return false;
     }
   }
@@ -142,11 +153,15 @@ function readBranch(text: string, cell: HeaderColumn, draft: PickDraft, problems
   return true;
 }
 
-/** True for a line holding nothing but whitespace. */
+/** True for a line holding nothing but whitespace (as `String.prototype.trim` counts it). */
 function isBlank(line: string): boolean {
-  return line.length === 0 || (line.charCodeAt(0) <= 0x20 || line.charCodeAt(0) >= 0x80 ? line.trim() === '' : false);
+  if (line.length === 0) return true;
+  const first = line.charCodeAt(0);
+  // A line that starts with a visible ASCII character is not blank: data rows skip the trim.
+  return (first <= 0x20 || first >= 0x80) && line.trim() === '';
 }
 
+/** True for a line whose first non-blank character is `#`. */
 function isComment(line: string): boolean {
   return line.startsWith('#') || line.trimStart().startsWith('#');
 }
@@ -157,7 +172,12 @@ function isComment(line: string): boolean {
 function reportQuoteFault(fault: CsvLineFault, line: number, lines: LineScanner, problems: ProblemList): void {
   const place = { line, column: fault.column };
   if (fault.kind === 'quote-stray') {
-    problems.error('quote-stray', place, `field ${fault.column} has a double quote inside unquoted text, or text after its closing quote`, 'enclose the whole field in double quotes and double every quote inside it ("" for ")');
+    problems.error(
+      'quote-stray',
+      place,
+      `field ${fault.column} has a double quote inside unquoted text, or text after its closing quote`,
+      'enclose the whole field in double quotes and double every quote inside it ("" for ")',
+    );
     return;
   }
   const ahead = lines.fork();
@@ -165,12 +185,22 @@ function reportQuoteFault(fault: CsvLineFault, line: number, lines: LineScanner,
     const next = ahead.next();
     if (next === null) break;
     if (countQuotes(next) % 2 === 1) {
-      problems.error('quote-spans-lines', place, `the quoted field ${fault.column} opens on this line and closes on line ${ahead.lineNumber}: a pick-table field may not hold a line break`, `join lines ${line} to ${ahead.lineNumber} into one line, removing the line break from the quoted text`);
+      problems.error(
+        'quote-spans-lines',
+        place,
+        `the quoted field in column ${fault.column} opens on this line and closes on line ${ahead.lineNumber}: a pick-table field may not hold a line break`,
+        `join lines ${line} to ${ahead.lineNumber} into one line, removing the line break from the quoted text`,
+      );
       while (lines.lineNumber < ahead.lineNumber) lines.next();
       return;
     }
   }
-  problems.error('quote-unclosed', place, `the quoted field ${fault.column} is never closed`, 'add the closing double quote, or remove the opening one');
+  problems.error(
+    'quote-unclosed',
+    place,
+    `the quoted field in column ${fault.column} is never closed`,
+    'add the closing double quote, or remove the opening one',
+  );
 }
 
 /** Lines of a shot's picks so far, by receiver id and (for rows without one) by position. */
@@ -208,23 +238,33 @@ const SOURCE_FIELDS = {
 } as const;
 
 /**
- * Checks across rows: duplicate picks, shots with too few picks, shots with two sources.
- * `shotLines` holds every row attributed to each shot, including refused rows.
+ * Checks across rows: duplicate picks (the same shot, receiver and branch: a receiver may hold a
+ * later arrival under another branch number), shots with too few picks, shots with two sources.
+ * `shotRows` holds every row attributed to each shot, including refused rows.
  */
-function checkAcrossRows(picks: readonly Pick[], shotLines: ReadonlyMap<string, ShotRows>, header: HeaderLayout, problems: ProblemList): void {
+function checkAcrossRows(picks: readonly Pick[], shotRows: ReadonlyMap<string, ShotRows>, header: HeaderLayout, problems: ProblemList): void {
   const receiverLines = new Map<string, ShotReceivers>();
   const firstOfShot = new Map<string, Pick>();
   const receiverCell = header.byQuantity.get('receiver');
   for (const pick of picks) {
-    let seen = receiverLines.get(pick.shot);
+    // A receiver may carry one pick per branch: a later arrival (e.g. a masked layer's head wave)
+    // supplied with its own branch number is not a duplicate of the first arrival.
+    const phase = pick.excluded ? 'excluded' : pick.branch === null ? 'automatic' : `branch ${pick.branch}`;
+    const key = `${pick.shot}\u0000${phase}`;
+    let seen = receiverLines.get(key);
     if (seen === undefined) {
       seen = { byId: new Map(), byPosition: new Map() };
-      receiverLines.set(pick.shot, seen);
+      receiverLines.set(key, seen);
     }
     const earlier = recordReceiver(seen, pick, header.coordinateSystem);
     if (earlier !== undefined) {
       const receiver = pick.receiver !== null ? `receiver ${quoted(pick.receiver)}` : `the receiver at ${describeReceiver(pick, header)}`;
-      problems.error('pick-duplicate', cellPlace(pick.line, pick.receiver !== null ? receiverCell : undefined), `shot ${quoted(pick.shot)}, ${receiver} is picked twice, on lines ${earlier} and ${pick.line}`, 'delete one of the two rows, or correct its receiver');
+      problems.error(
+        'pick-duplicate',
+        cellPlace(pick.line, pick.receiver !== null ? receiverCell : undefined),
+        `shot ${quoted(pick.shot)}, ${receiver} is picked twice${pick.branch === null ? '' : ` for branch ${pick.branch}`}, on lines ${earlier} and ${pick.line}`,
+        'delete one of the two rows or correct its receiver; a later arrival on purpose needs its own number in the branch column',
+      );
     }
     const first = firstOfShot.get(pick.shot);
     if (first === undefined) {
@@ -243,11 +283,16 @@ function checkAcrossRows(picks: readonly Pick[], shotLines: ReadonlyMap<string, 
       );
     }
   }
-  for (const [shot, { count: rowCount, lines }] of shotLines) {
+  for (const [shot, { count: rowCount, lines }] of shotRows) {
     if (rowCount >= MIN_PICKS_PER_SHOT) continue;
     const first = lines[0] ?? header.line;
     const count = lines.length === 1 ? 'one pick' : `${lines.length} picks`;
-    problems.error('shot-too-few-picks', { line: first, column: null }, `shot ${quoted(shot)} has only ${count} (line${lines.length === 1 ? '' : 's'} ${lines.join(', ')}): a shot needs at least ${MIN_PICKS_PER_SHOT}, across both sides`, 'add the missing picks, or delete the shot\'s rows');
+    problems.error(
+      'shot-too-few-picks',
+      { line: first, column: null },
+      `shot ${quoted(shot)} has only ${count} (line${lines.length === 1 ? '' : 's'} ${lines.join(', ')}): a shot needs at least ${MIN_PICKS_PER_SHOT}, across both sides`,
+      'add the missing picks, or delete the shot\'s rows',
+    );
   }
 }
 
@@ -280,8 +325,9 @@ function positiveInteger(value: number | undefined, name: string, fallback: numb
  * - an input over `maxBytes` gets one `input-too-large` and is not decoded;
  * - invalid UTF-8 stops the reading after one `encoding-invalid` per line;
  * - a header with errors still has its rows checked cell by cell, but no checks across rows run;
- * - a row with a wrong field count or bad quoting is not read further; one trailing empty field
- *   (a trailing comma) is tolerated on any row, the header included;
+ * - a header with bad quoting ends the reading; a row with a wrong field count or bad quoting is
+ *   not read further; one trailing empty field (a trailing comma) is tolerated on any row, the
+ *   header included;
  * - blank lines below the header are skipped, `#` lines there are errors;
  * - across rows (for rows without errors): a receiver picked twice for one shot (by receiver id
  *   when given, else by position), a shot with fewer than three rows in all, and a shot whose rows
@@ -309,84 +355,116 @@ export function readPickTable(input: string | Uint8Array, options: ReadPickTable
   if (text === null) return refused();
 
   const lines = new LineScanner(text);
-  let headerText: string | null = null;
+  const headerText = findHeader(lines, problems);
+  if (headerText === null) return refused();
+  const headerFields = splitCsvLine(headerText);
+  if (headerFields.fault !== null) {
+    reportQuoteFault(headerFields.fault, lines.lineNumber, lines, problems);
+    return refused();
+  }
+  const header = readHeader(headerFields.fields, lines.lineNumber, problems);
+  const { picks, shotRows } = readRows(lines, header, problems);
+  if (!header.usable) return refused();
+  checkAcrossRows(picks, shotRows, header, problems);
+  if (problems.hasErrors) return refused();
+  return { ok: true, value: pickSet(picks, header), warnings: problems.warnings() };
+}
+
+/** Skip blank and comment lines; the header line's text, or null after reporting its absence. */
+function findHeader(lines: LineScanner, problems: ProblemList): string | null {
   let sawComment = false;
   for (let current = lines.next(); current !== null; current = lines.next()) {
     if (isBlank(current)) continue;
-    if (isComment(current)) {
-      sawComment = true;
-      continue;
-    }
-    headerText = current;
-    break;
+    if (!isComment(current)) return current;
+    sawComment = true;
   }
-  if (headerText === null) {
-    if (sawComment) {
-      problems.error('table-only-comments', { line: 1, column: null }, 'the pick table holds only comment lines (starting with #): it has no header row and no picks', 'add a header row (e.g. shot,source_x_m,receiver_x_m,time_ms) below the comments, and one row per pick');
-    } else {
-      problems.error('table-empty', { line: 1, column: null }, 'the pick table is empty', 'give a header row (e.g. shot,source_x_m,receiver_x_m,time_ms) and one row per pick');
-    }
-    return refused();
+  const example = 'a header row (e.g. shot,source_x_m,receiver_x_m,time_ms)';
+  if (sawComment) {
+    problems.error(
+      'table-only-comments',
+      { line: 1, column: null },
+      'the pick table holds only comment lines (starting with #): it has no header row and no picks',
+      `add ${example} below the comments, and one row per pick`,
+    );
+  } else {
+    problems.error(
+      'table-empty',
+      { line: 1, column: null },
+      'the pick table is empty',
+      `give ${example} and one row per pick`,
+    );
   }
-  const headerLine = lines.lineNumber;
-  const headerFields = splitCsvLine(headerText);
-  if (headerFields.fault !== null) {
-    reportQuoteFault(headerFields.fault, headerLine, lines, problems);
-    return refused();
-  }
-  const header = readHeader(headerFields.fields, headerLine, problems);
-  const shotCell = header.byQuantity.get('shot');
-  const picks: Pick[] = [];
-  const shotLines = new Map<string, ShotRows>();
-  const attribute = (fields: readonly string[], line: number): void => {
-    const shot = shotCell === undefined ? undefined : fields[shotCell.position - 1];
-    if (shot === undefined || shot === '') return;
-    const rows = shotLines.get(shot);
-    if (rows === undefined) {
-      shotLines.set(shot, { count: 1, lines: [line] });
-    } else {
-      rows.count += 1;
-      if (rows.lines.length < MIN_PICKS_PER_SHOT) rows.lines.push(line);
-    }
-  };
+  return null;
+}
 
+/** Count a row toward its shot (when its shot cell can be read, even if the row is refused). */
+function tallyShot(shotRows: Map<string, ShotRows>, shot: string | undefined, line: number): void {
+  if (shot === undefined || shot === '') return;
+  const rows = shotRows.get(shot);
+  if (rows === undefined) {
+    shotRows.set(shot, { count: 1, lines: [line] });
+  } else {
+    rows.count += 1;
+    if (rows.lines.length < MIN_PICKS_PER_SHOT) rows.lines.push(line);
+  }
+}
+
+/**
+ * Read every line below the header: the picks of rows without problems (none when the header is
+ * unusable) and the rows attributed to each shot.
+ */
+function readRows(lines: LineScanner, header: HeaderLayout, problems: ProblemList): { picks: Pick[]; shotRows: Map<string, ShotRows> } {
+  const picks: Pick[] = [];
+  const shotRows = new Map<string, ShotRows>();
+  const shotIndex = (header.byQuantity.get('shot')?.position ?? 0) - 1;
   let dataRows = 0;
   for (let current = lines.next(); current !== null; current = lines.next()) {
     if (isBlank(current)) continue;
     const line = lines.lineNumber;
     if (isComment(current)) {
-      problems.error('comment-after-header', { line, column: null }, 'a line starting with # below the header: comments are allowed only above the header row', 'move the comment above the header; to leave a pick out, write x in its branch column; a shot id that starts with # must be quoted');
+      problems.error(
+        'comment-after-header',
+        { line, column: null },
+        'a line starting with # below the header: comments are allowed only above the header row',
+        'move the comment above the header; to leave a pick out, write x in its branch column; a shot id that starts with # must be quoted',
+      );
       continue;
     }
     dataRows += 1;
     const row = splitCsvLine(current);
+    const width = header.width;
+    const fields = row.fields.length === width + 1 && row.fields[width] === '' ? row.fields.slice(0, width) : row.fields;
+    tallyShot(shotRows, fields[shotIndex], line);
     if (row.fault !== null) {
-      attribute(row.fields, line);
       reportQuoteFault(row.fault, line, lines, problems);
       continue;
     }
-    const fields = row.fields.length === header.width + 1 && row.fields[header.width] === '' ? row.fields.slice(0, header.width) : row.fields;
-    attribute(fields, line);
-    if (fields.length !== header.width) {
-      problems.error('row-field-count', { line, column: null }, `the row has ${fields.length} field${fields.length === 1 ? '' : 's'} but the header (line ${header.line}) has ${header.width} columns`, 'give every row one field per header column; quote a value that holds a comma');
+    if (fields.length !== width) {
+      problems.error(
+        'row-field-count',
+        { line, column: null },
+        `the row has ${fields.length} field${fields.length === 1 ? '' : 's'} but the header (line ${header.line}) has ${width} columns`,
+        'give every row one field per header column; quote a value that holds a comma',
+      );
       continue;
     }
     const draft = emptyDraft(line);
     let rowOk = true;
-    for (let index = 0; index < fields.length; index += 1) {
+    for (let index = 0; index < width; index += 1) {
       const cell = header.cells[index];
-      if (cell === null || cell === undefined) continue;
-      if (!readCell(fields[index] ?? '', cell, draft, problems)) rowOk = false;
+      if (cell !== null && cell !== undefined && !readCell(fields[index] ?? '', cell, draft, problems)) rowOk = false;
     }
     if (rowOk && header.usable) picks.push(draft);
   }
   if (dataRows === 0) {
-    problems.error('table-no-data', { line: header.line, column: null }, 'the pick table has a header row but no data rows', 'add one row per pick below the header');
+    problems.error(
+      'table-no-data',
+      { line: header.line, column: null },
+      'the pick table has a header row but no data rows',
+      'add one row per pick below the header',
+    );
   }
-  if (!header.usable) return refused();
-  checkAcrossRows(picks, shotLines, header, problems);
-  if (problems.hasErrors) return refused();
-  return { ok: true, value: pickSet(picks, header), warnings: problems.warnings() };
+  return { picks, shotRows };
 }
 
 function pickSet(picks: readonly Pick[], header: HeaderLayout): PickSet {
@@ -397,7 +475,7 @@ function pickSet(picks: readonly Pick[], header: HeaderLayout): PickSet {
     seen.add(pick.shot);
     shotIds.push(pick.shot);
   }
-  const has = (quantity: Parameters<HeaderLayout['byQuantity']['has']>[0]): boolean => header.byQuantity.has(quantity);
+  const has = (quantity: PickTableQuantity): boolean => header.byQuantity.has(quantity);
   return {
     picks,
     shotIds,

@@ -339,6 +339,15 @@ describe('readPickTable reading', () => {
     expect(loaded(table(`${HEADER},receiver`, 'S1,0,10,25,G1', 'S1,0,10,25.1,G1b', 'S1,0,60,48.1292,G6')).picks).toHaveLength(3);
   });
 
+  it('readPickTable accepts a later arrival at the same receiver under its own branch number, but not twice for one branch', () => {
+    // A masked layer's head wave picked as a later phase (branch 2) beside the first arrival (branch 3).
+    const later = loaded(table(`${HEADER},branch`, 'S1,0,10,25,1', 'S1,0,60,48.1292,3', 'S1,0,60,52.4,2', 'S1,0,80,55.0,3'));
+    expect(later.picks.map((pick) => pick.branch)).toEqual([1, 3, 2, 3]);
+    const outcome = readPickTable(table(`${HEADER},branch`, 'S1,0,10,25,1', 'S1,0,60,48.1292,2', 'S1,0,60,52.4,2', 'S1,0,80,55.0,2'));
+    expect(outcome.ok).toBe(false);
+    if (!outcome.ok) expect(outcome.problems.map((problem) => [problem.code, problem.line])).toEqual([['pick-duplicate', 4]]);
+  });
+
   it('readPickTable counts excluded picks toward the three picks a shot needs', () => {
     expect(loaded(table(`${HEADER},branch`, 'S1,0,10,25,x', 'S1,0,30,38.1149,x', 'S1,0,60,48.1292,')).picks).toHaveLength(3);
   });
