@@ -58,7 +58,7 @@ export const DEFAULT_OPTIONS = {
   maxBranches: 5,
 };
 
-/** Time resolution assumed for picks at each scale (s): 0.1 ms engineering, 10 ms crustal (common practice). */
+/** Time resolution assumed for picks of each scale of table (s): 0.1 ms engineering, 10 ms crustal (common practice). */
 export const TIME_RESOLUTION: Readonly<Record<DisplayScale, number>> = { engineering: 1e-4, crustal: 1e-2 };
 
 /** One shot side after branches and depths, in SI. */
@@ -68,6 +68,12 @@ export interface SideResult {
   readonly stackBranchCount: number;
   readonly interceptTime: LayerDepths | null;
   readonly crossoverDistance: LayerDepths | null;
+  /**
+   * Depths from the two ends of each observed crossover bracket, widened by the zone where the
+   * branches differ by less than twice the pick scatter: the depth range the picks allow
+   * (METHODS §2, "Agreement"). Null when there is no crossover-distance reading.
+   */
+  readonly crossoverBracket: { readonly low: LayerDepths; readonly high: LayerDepths } | null;
   /** Fitted crossover distance and SE between consecutive stack branches. */
   readonly fittedCrossovers: readonly ({ readonly distance: number; readonly variance: number } | null)[];
   readonly bootstrap: BootstrapDepths | null;
@@ -101,7 +107,8 @@ export function interpretSurvey(
   pickSet: PickSet,
   settings: typeof DEFAULT_OPTIONS & { readonly scale: DisplayScale },
 ): SurveyResult {
-  const timeResolution = TIME_RESOLUTION[settings.scale];
+  // The resolution belongs to the data (how the table gave its times), not to the display units.
+  const timeResolution = TIME_RESOLUTION[pickSet.suggestedScale];
   const segmentOptions = {
     fitMethod: settings.fitMethod,
     minPicksPerBranch: settings.minPicksPerBranch,
@@ -171,6 +178,7 @@ function depthsForSide(
     stackBranchCount: stack.length,
     interceptTime: null,
     crossoverDistance: null,
+    crossoverBracket: null,
     fittedCrossovers: [],
     bootstrap: null,
     borrowedDirect,
@@ -184,23 +192,33 @@ function depthsForSide(
   // Where branches overlap in offset (user-assigned later phases) there is no such reading.
   // Near the crossover the two branches differ by less than twice the pick scatter σ_t, so a pick
   // there may sit on either: the reading's variance adds that of a uniform spread over
-  // ±2σ_t/|s_n − s_{n+1}| to the bracket's own uniform variance.
-  const observed = stack.slice(0, -1).map((_, k) => {
+  // ±2σ_t/|s_n − s_{n+1}| to the bracket's own uniform variance, and the bracket is widened by it.
+  const readings = stack.slice(0, -1).map((_, k) => {
     const lower = byIndex.get(k + 1);
     const upper = byIndex.get(k + 2);
     if (!lower || !upper || upper.firstOffset < lower.lastOffset) return null;
     const bracket = observedCrossover(lower.lastOffset, upper.firstOffset);
     const scatter = Math.hypot(lower.fit.residualSD, upper.fit.residualSD) / Math.SQRT2;
-    const ambiguity = scatter / Math.abs(lower.fit.slope - upper.fit.slope);
-    const ambiguityVariance = Number.isFinite(ambiguity) ? (2 * ambiguity) ** 2 / 3 : 0;
-    return { distance: bracket.distance, variance: bracket.variance + ambiguityVariance };
+    const ambiguity = 2 * (scatter / Math.abs(lower.fit.slope - upper.fit.slope));
+    const halfZone = Number.isFinite(ambiguity) ? ambiguity : 0;
+    return {
+      distance: bracket.distance,
+      variance: bracket.variance + halfZone ** 2 / 3,
+      low: Math.max(0, lower.lastOffset - halfZone),
+      high: upper.firstOffset + halfZone,
+    };
   });
-  const crossoverDistance = observed.every((entry) => entry !== null)
-    ? crossoverDistanceDepths(
-        stack.map((parameters) => ({ slowness: parameters.slowness, variance: parameters.slownessVariance })),
-        observed.map((entry) => ({ distance: entry!.distance, variance: entry!.variance })),
-        { value: stack[0]!.intercept, variance: stack[0]!.interceptVariance },
-      )
+  const slownesses = stack.map((parameters) => ({ slowness: parameters.slowness, variance: parameters.slownessVariance }));
+  const directIntercept = { value: stack[0]!.intercept, variance: stack[0]!.interceptVariance };
+  const complete = readings.every((entry) => entry !== null);
+  const crossoverDistance = complete
+    ? crossoverDistanceDepths(slownesses, readings.map((entry) => ({ distance: entry!.distance, variance: entry!.variance })), directIntercept)
+    : null;
+  const crossoverBracket = complete
+    ? {
+        low: crossoverDistanceDepths(slownesses, readings.map((entry) => ({ distance: entry!.low, variance: 0 })), directIntercept),
+        high: crossoverDistanceDepths(slownesses, readings.map((entry) => ({ distance: entry!.high, variance: 0 })), directIntercept),
+      }
     : null;
 
   let bootstrap: BootstrapDepths | null = null;
@@ -223,6 +241,7 @@ function depthsForSide(
     ...empty,
     interceptTime,
     crossoverDistance,
+    crossoverBracket,
     fittedCrossovers: fitted,
     bootstrap,
   };
@@ -232,17 +251,25 @@ function slownessesByBranch(segmentation: SideSegmentation): ({ slowness: number
   const largest = Math.max(0, ...segmentation.branches.map((branch) => branch.index));
   const slots: ({ slowness: number; variance: number } | null)[] = new Array(largest).fill(null);
   for (const branch of segmentation.branches) {
+    // A branch whose time does not grow with offset has no velocity to average (it is warned about).
+    if (!(branch.fit.slope > 0)) continue;
     slots[branch.index - 1] = { slowness: branch.fit.slope, variance: branch.fit.slopeSE ** 2 };
   }
   return slots;
 }
 
-/** The survey's layered model: mean velocities and thicknesses, while both are defined and positive. */
-function surveyModel(combined: CombinedLayers): LayeredModel | null {
+/**
+ * The survey's layered model: mean velocities and thicknesses, from the top down while each layer
+ * is defined, faster than the one above (a plane-layer head wave needs it) and of positive
+ * thickness. Where it stops early, `surveyWarnings` says why.
+ */
+export function surveyModel(combined: CombinedLayers): LayeredModel | null {
   const velocities: number[] = [];
   for (const entry of combined.slownesses) {
     if (entry === null || !(entry.value > 0)) break;
-    velocities.push(1 / entry.value);
+    const velocity = 1 / entry.value;
+    if (velocities.length > 0 && !(velocity > velocities[velocities.length - 1]!)) break;
+    velocities.push(velocity);
   }
   if (velocities.length === 0) return null;
   const { thicknesses } = thicknessesFromDepths(combined.depths, combined.depthCovariance);

@@ -7,8 +7,9 @@
  *   slopebreak schema            print the JSON Schema of the interpretation
  *   slopebreak --help | --version
  *
- * Exit codes: 0 success; 1 the input was refused (its problems are on stderr); 2 usage error;
- * 3 internal error (a bug).
+ * Exit codes: 0 success; 1 the input was refused or unreadable, or nothing could be interpreted
+ * from it (the reasons are on stderr); 2 usage error; 3 internal error (a bug). A closed output pipe
+ * ends the command quietly.
  */
 import { readFileSync, realpathSync, statSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -85,10 +86,12 @@ function runInterpret(args: readonly string[]): number {
 
   let bytes: Buffer;
   try {
-    if (!statSync(file).isFile()) throw new Error('not a regular file');
+    if (!statSync(file).isFile()) throw Object.assign(new Error('not a regular file'), { code: 'EISDIR' });
     bytes = readFileSync(file);
   } catch (error) {
-    process.stderr.write(`slopebreak: cannot read ${file}: ${(error as Error).message}; check the path\n`);
+    const code = (error as { code?: string }).code;
+    const reason = code === 'ENOENT' ? 'no such file' : code === 'EACCES' ? 'permission denied' : code === 'EISDIR' ? 'it is a folder' : (error as Error).message;
+    process.stderr.write(`slopebreak: cannot read ${file}: ${reason}; check the path\n`);
     return 1;
   }
   const outcome = readPickTable(bytes);
@@ -109,6 +112,10 @@ function runInterpret(args: readonly string[]): number {
     softwareVersion: softwareVersion(),
   });
   process.stdout.write(values.json ? `${JSON.stringify(result, null, 2)}\n` : formatSummary(result));
+  if (result.layers.length === 0) {
+    process.stderr.write(`slopebreak: nothing could be interpreted from ${file}: no shot side has a branch that could be fitted (see the warnings)\n`);
+    return 1;
+  }
   return 0;
 }
 
@@ -154,6 +161,11 @@ function invokedDirectly(): boolean {
 }
 
 if (invokedDirectly()) {
+  // A reader that closes the pipe early (`| head`) is not an error of ours: stop quietly.
+  process.stdout.on('error', (error: NodeJS.ErrnoException) => {
+    if (error.code === 'EPIPE') process.exit(0);
+    throw error;
+  });
   try {
     process.exitCode = main(process.argv.slice(2));
   } catch (error) {

@@ -8,9 +8,15 @@ function fixed(value: number | null | undefined, digits: number): string {
   return value === null || value === undefined || !Number.isFinite(value) ? '—' : value.toFixed(digits);
 }
 
-function plusMinus(value: number | null | undefined, error: number | null | undefined, digits: number): string {
+/**
+ * "value ± error" with the error to two significant figures and the value to the same decimal
+ * place (the usual way to quote a measurement); `digits` decimals when the error is zero or unknown.
+ */
+export function plusMinus(value: number | null | undefined, error: number | null | undefined, digits: number): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return '—';
-  return `${value.toFixed(digits)} ± ${fixed(error, digits)}`;
+  if (error === null || error === undefined || !Number.isFinite(error) || !(error > 0)) return `${value.toFixed(digits)} ± ${fixed(error, digits)}`;
+  const decimals = Math.min(6, Math.max(0, 1 - Math.floor(Math.log10(error))));
+  return `${value.toFixed(decimals)} ± ${error.toFixed(decimals)}`;
 }
 
 function table(header: readonly string[], rows: readonly (readonly string[])[]): string[] {
@@ -21,7 +27,8 @@ function table(header: readonly string[], rows: readonly (readonly string[])[]):
 }
 
 function wrap(text: string, indent: string, width = 96): string[] {
-  const words = text.split(/\s+/);
+  // Split at ordinary spaces only: a no-break space keeps a number with its unit.
+  const words = text.split(/[ \t\n]+/);
   const lines: string[] = [];
   let current = '';
   for (const word of words) {
@@ -46,14 +53,14 @@ export function formatSummary(result: Interpretation): string {
       `${result.summary.shotSideCount} shot sides · units ${units.distance}, ${units.time}, ${units.velocity} · fit: ${result.options.fitMethod}`,
   );
   out.push('');
-  out.push('LAYERS  (plane horizontal layers; velocities and depths are means over the shot sides)');
+  out.push('LAYERS  (plane horizontal layers; means over the shot sides; ± is one standard error)');
   out.push(
     ...table(
       ['layer', `velocity ${units.velocity}`, `thickness ${units.distance}`, `top at depth ${units.distance}`, 'shot sides'],
       result.layers.map((layer) => [
         String(layer.index),
         plusMinus(layer.velocity, layer.velocitySE, velocityDigits),
-        layer.thickness === null ? 'half-space' : plusMinus(layer.thickness, layer.thicknessSE, distanceDigits),
+        layer.depthToTop === null ? 'not resolved' : layer.thickness === null ? 'half-space' : plusMinus(layer.thickness, layer.thicknessSE, distanceDigits),
         plusMinus(layer.depthToTop, layer.depthToTopSE, distanceDigits),
         String(layer.shotSides),
       ]),
@@ -65,7 +72,7 @@ export function formatSummary(result: Interpretation): string {
   for (const shot of result.shots) {
     for (const side of shot.sides) {
       const interfaces = Math.max(side.depths.interceptTime.length, side.depths.crossoverDistance.length);
-      const branches = side.branches.map((branch) => `${branch.index}:${fixed(branch.apparentVelocity, velocityDigits)}`).join(' ');
+      const branches = side.branches.map((branch) => `${branch.index}:${branch.apparentVelocity === null ? '∞' : fixed(branch.apparentVelocity, velocityDigits)}`).join(' ');
       if (interfaces === 0) {
         depthRows.push([shot.id, side.side, fixed(shot.sourceX, distanceDigits), branches, '—', '—', '—', '—']);
       }
@@ -86,11 +93,16 @@ export function formatSummary(result: Interpretation): string {
       }
     }
   }
+  const replicates = result.options.bootstrapReplicates;
   out.push(
     ...table(
-      ['shot', 'side', `at ${units.distance}`, `branch:apparent ${units.velocity}`, 'iface', 'intercept-time', 'crossover-distance', 'bootstrap 95%'],
+      ['shot', 'side', `at ${units.distance}`, `branch:apparent ${units.velocity}`, 'iface', 'intercept-time', 'crossover-distance', replicates > 0 ? `bootstrap 95% (${replicates})` : 'bootstrap 95%'],
       depthRows,
     ),
+  );
+  out.push(
+    '  — crossover-distance: no crossover readable from the picks (no direct-wave picks on that side, or branches overlapping);',
+    `  — bootstrap: ${replicates > 0 ? 'not computed for that side (its top-layer velocity is borrowed)' : 'not asked for (--bootstrap N)'}`,
   );
   out.push('');
   const rmsList = result.residuals.perShot.map((entry) => `${entry.shot} ${fixed(entry.rms, timeDigits)}`).join(', ');

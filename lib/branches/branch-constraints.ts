@@ -32,6 +32,26 @@
 export type PhysicalConstraint = 'slopes-positive' | 'slopes-decreasing' | 'intercepts-increasing' | 'crossovers-in-gaps' | 'slopes-distinct';
 
 /**
+ * Each constraint in plain words, as a note names what a split shows when it fails it ("the split
+ * has …"). The codes stay in `SegmentationCandidate.failedConstraint`; messages use these words.
+ */
+export const PHYSICAL_CONSTRAINT_WORDS: Readonly<Record<PhysicalConstraint, string>> = {
+  'slopes-positive': 'a branch whose times do not increase with offset',
+  'slopes-decreasing': 'apparent velocity falling with offset',
+  'intercepts-increasing': 'intercept times out of order',
+  'crossovers-in-gaps': 'lines that cross outside the gap between their picks',
+  'slopes-distinct': 'neighbouring branches whose velocities cannot be told apart',
+};
+
+/** The plain words of a constraint code (`PHYSICAL_CONSTRAINT_WORDS`); an unknown code is misuse and throws. */
+export function describePhysicalConstraint(code: string): string {
+  if (!Object.hasOwn(PHYSICAL_CONSTRAINT_WORDS, code)) {
+    throw new RangeError(`describePhysicalConstraint: unknown constraint ${code}; expected one of ${Object.keys(PHYSICAL_CONSTRAINT_WORDS).join(', ')}`);
+  }
+  return PHYSICAL_CONSTRAINT_WORDS[code as PhysicalConstraint];
+}
+
+/**
  * Standard errors by which consecutive slopes must differ for two branches to be two refractors
  * (choice made here: a break whose velocities cannot be told apart at 3 SE is noise, and
  * over-splitting a branch invents a layer; 3 SE keeps a false split below ~0.3 % per break).

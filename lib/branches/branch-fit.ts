@@ -13,6 +13,7 @@
  * `fit-refused` note naming the branch instead of a branch. Members must be valid positions,
  * ascending (misuse throws).
  */
+import { describeShotSide } from '../checks/wording.js';
 import { fitLine } from './line-fit.js';
 import type { Branch, FitMethod, FitOptions, FitOutcome, SegmentationNote, SidePicks } from './types.js';
 
@@ -61,7 +62,7 @@ export function branchFromMembers(
   };
 }
 
-/** "shot S3, forward side" — how messages name a side. */
+/** "shot S3, forward side" — how messages name a side: the one wording of `describeShotSide`. */
 export function sideName(side: SidePicks): string {
-  return `shot ${side.shot}, ${side.side} side`;
+  return describeShotSide({ shot: side.shot, side: side.side });
 }

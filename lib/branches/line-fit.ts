@@ -6,14 +6,15 @@
  * Dispatch on `options.method` (default `least-squares`):
  * - `least-squares` (`fitLeastSquares`): OLS, or WLS with absolute sigmas when `sigmas` is given;
  * - `theil-sen` (`fitTheilSen`): median of pairwise slopes, Kendall-τ interval; sigmas unused;
- * - `huber` (`fitHuber`): Huber M-estimate by IRLS from the Theil–Sen line; sigmas unused.
+ * - `huber` (`fitHuber`): Huber M-estimate by IRLS from the Theil–Sen line; with sigmas, the
+ *   residuals are standardised by them (absolute pick uncertainties, as for least squares).
  * `options.throughOrigin` forces t = 0 at x = 0 (the direct wave of a surface shot).
  * Sources are named in each method's module (METHODS §3).
  *
  * Edges: refusals are values, never throws — too few picks (3 for a free line, 2 through the
  * origin; 2 and 1 for weighted least squares), all offsets equal (all zero through the origin),
- * non-finite offsets, times or used sigmas (see `refuseFitInput`). Sigmas given to a robust method
- * are ignored and not checked. Arrays of different lengths throw (a programming error).
+ * non-finite offsets, times or used sigmas (see `refuseFitInput`). Sigmas given to Theil–Sen are
+ * ignored and not checked. Arrays of different lengths throw (a programming error).
  *
  * @example
  * // METHODS check case 3.1, direct branch through the origin
@@ -40,7 +41,7 @@ export function fitLine(
     case 'theil-sen':
       return fitTheilSen(offsets, times, { throughOrigin });
     case 'huber':
-      return fitHuber(offsets, times, { throughOrigin });
+      return fitHuber(offsets, times, { throughOrigin, sigmas });
     default:
       throw new RangeError(`fitLine: unknown fit method ${String(method satisfies never)}`);
   }

@@ -22,10 +22,15 @@
  *    that fails them is impossible for plane layers. The last two (crossovers in the gaps,
  *    distinct slopes) are soft: a split failing only them is still taken when its BIC beats every
  *    split that passes by more than `DECISIVE_BIC` ("very strong" evidence, Kass & Raftery 1995),
- *    since one mispick at a crossover must not cost a whole branch. When the BIC-best failed, a
- *    `segmentation-constraint-failed` note says so; when none passes, the BIC-best is used and the
- *    note says that. The crossover tolerance is the median spacing between consecutive picks on
- *    the side (one receiver interval), widened by the crossover's own uncertainty.
+ *    since one mispick at a crossover must not cost a whole branch. When no split passes, the best
+ *    that fails only a soft constraint is used, or the BIC-best when every split fails a hard one.
+ *    When the BIC-best failed, a `segmentation-constraint-failed` note says so and says what the
+ *    split used is — one that passes every constraint, one that fails only a soft one (and why it
+ *    still won), or the BIC-best as it is — naming the constraints in plain words ("apparent
+ *    velocity falling with offset", `PHYSICAL_CONSTRAINT_WORDS`) and each split by its branch count
+ *    and the offsets it breaks between. The crossover tolerance is the median spacing between
+ *    consecutive picks on the side (one receiver interval), widened by the crossover's own
+ *    uncertainty.
  * 4. Reported fits (`branchFromMembers`): method `fitMethod`, branch 1 of a surface shot through
  *    the origin, weighted least squares when the side has sigmas. Branch indices run 1…K, or
  *    from `firstBranchIndex` up when the caller knows the nearest branch is a head wave.
@@ -52,7 +57,8 @@
  * // → 3 branches over 2.5–10, 12.5–35 and 37.5–120 m; BIC −521.0, −622.5, −754.2, −745.5, −736.2
  */
 import { branchFromMembers, sideName } from './branch-fit.js';
-import { failedPhysicalConstraint, type SegmentLine } from './branch-constraints.js';
+import { describePhysicalConstraint, failedPhysicalConstraint, type SegmentLine } from './branch-constraints.js';
+import { formatQuantity } from '../checks/wording.js';
 import { leastSquaresLine } from './least-squares.js';
 import { median } from './median.js';
 import { optimalPartitions, type Partition } from './optimal-partition.js';
@@ -130,25 +136,8 @@ export function segmentSide(side: SidePicks, options: SegmentSideOptions = {}): 
   );
   const accepted = decisive !== undefined && (passing === undefined || decisive.bic < passing.bic) ? decisive : passing;
   const chosen = accepted ?? best;
-  if (best.failedConstraint !== null && accepted === best) {
-    notes.push({
-      code: 'segmentation-constraint-failed',
-      message:
-        `${sideName(side)}: the best split (${branchCount(best)}) fails the soft constraint ${best.failedConstraint}, ` +
-        `but fits so much better (BIC lower by more than ${DECISIVE_BIC}) than any split that passes that it is used; ` +
-        'a mispick near a crossover is the usual cause — check the picks near the breaks',
-    });
-  } else if (best.failedConstraint !== null) {
-    notes.push({
-      code: 'segmentation-constraint-failed',
-      message: accepted
-        ? `${sideName(side)}: the statistically best split (${branchCount(best)}) fails the constraint ` +
-          `${best.failedConstraint}, so the best split that passes (${branchCount(accepted)}) is used; ` +
-          'check the picks near the breaks, or assign branches by hand'
-        : `${sideName(side)}: no split passes the physical constraints (the best, ${branchCount(best)}, fails ` +
-          `${best.failedConstraint}) and it is used as it is; check for dip, lateral change or mispicks, or assign branches by hand`,
-    });
-  }
+  const note = constraintNote(side, best, accepted, passing);
+  if (note !== null) notes.push(note);
 
   const branches: Branch[] = [];
   segmentRanges(chosen.starts, count).forEach(([first, last], position) => {
@@ -162,9 +151,10 @@ export function segmentSide(side: SidePicks, options: SegmentSideOptions = {}): 
 
 /**
  * BIC of a partition (Schwarz 1978) as `segmentSide` uses it: p = 2K + c·(K − 1) with c
- * `breakpointParameters` (default 1 here, as METHODS 4.1 counts), less one when the first line goes
- * through the origin; χ² + p·ln n when the costs are χ², else n·ln(max(RSS, n·dt²/12)/n)
- * + p·ln n.
+ * `breakpointParameters`, less one when the first line goes through the origin; χ² + p·ln n when
+ * the costs are χ², else n·ln(max(RSS, n·dt²/12)/n) + p·ln n. c defaults to 3, the same default as
+ * `segmentSide` (`DEFAULT_SEGMENT_OPTIONS.breakpointParameters`); pass 1 for the count of METHODS
+ * check case 4.1.
  */
 export function segmentationBic(
   partition: Partition,
@@ -172,7 +162,7 @@ export function segmentationBic(
   originFirst: boolean,
   weighted: boolean,
   timeResolution: number,
-  breakpointParameters = 1,
+  breakpointParameters: number = DEFAULT_SEGMENT_OPTIONS.breakpointParameters,
 ): number {
   const parameterCount = 2 * partition.branchCount + breakpointParameters * (partition.branchCount - 1) - (originFirst ? 1 : 0);
   const penalty = parameterCount * Math.log(pickCount);
@@ -181,8 +171,57 @@ export function segmentationBic(
   return pickCount * Math.log(Math.max(partition.cost, floor) / pickCount) + penalty;
 }
 
-function branchCount(candidate: SegmentationCandidate): string {
-  return candidate.branchCount === 1 ? '1 branch' : `${candidate.branchCount} branches`;
+/**
+ * The `segmentation-constraint-failed` note, or null when the BIC-best split passes every
+ * constraint. Which note is decided by what the split used failed (`accepted.failedConstraint`),
+ * not by whether it is the BIC-best: it passes every constraint, fails only a soft one, or there is
+ * none (`accepted` undefined: every split fails a hard constraint and the BIC-best is used).
+ * Constraints are named in plain words (`describePhysicalConstraint`) and splits by their branch
+ * count and break offsets (`describeSplit`).
+ */
+function constraintNote(
+  side: SidePicks,
+  best: SegmentationCandidate,
+  accepted: SegmentationCandidate | undefined,
+  passing: SegmentationCandidate | undefined,
+): SegmentationNote | null {
+  if (best.failedConstraint === null) return null;
+  const place = sideName(side);
+  const split = (candidate: SegmentationCandidate): string => describeSplit(candidate, side.offsets);
+  const failure = (candidate: SegmentationCandidate): string => describePhysicalConstraint(candidate.failedConstraint ?? '');
+  let message: string;
+  if (accepted === undefined) {
+    message =
+      `${place}: no split passes the physical constraints; the statistically best (${split(best)}) has ${failure(best)} ` +
+      'and is used as it is; check for dip, lateral change or mispicks, or assign branches by hand';
+  } else if (accepted.failedConstraint === null) {
+    message =
+      `${place}: the statistically best split (${split(best)}) has ${failure(best)}, so the best split that passes every ` +
+      `constraint (${split(accepted)}) is used; check the picks near the breaks, or assign branches by hand`;
+  } else {
+    const reason =
+      passing === undefined
+        ? 'no split passes every constraint'
+        : `it fits so much better (BIC lower by more than ${DECISIVE_BIC}) than the best split that passes every constraint (${split(passing)})`;
+    const opening =
+      accepted === best
+        ? `${place}: the statistically best split (${split(best)}) fails only a soft constraint — it has ${failure(best)} — ` +
+          `but it is used because ${reason}`
+        : `${place}: the statistically best split (${split(best)}) has ${failure(best)}; the split used (${split(accepted)}) ` +
+          `fails only a soft constraint — it has ${failure(accepted)} — and is used because ${reason}`;
+    message = `${opening}; a mispick near a crossover is the usual cause — check the picks near the breaks, or assign branches by hand`;
+  }
+  return { code: 'segmentation-constraint-failed', message };
+}
+
+/** "1 branch" or "3 branches, breaking between 10 m and 12.5 m and between 35 m and 37.5 m". */
+function describeSplit(candidate: SegmentationCandidate, offsets: readonly number[]): string {
+  const count = candidate.branchCount === 1 ? '1 branch' : `${candidate.branchCount} branches`;
+  if (candidate.starts.length === 0) return count;
+  const breaks = candidate.starts.map(
+    (start) => `between ${formatQuantity(offsets[start - 1] as number, 'm')} and ${formatQuantity(offsets[start] as number, 'm')}`,
+  );
+  return `${count}, breaking ${breaks.join(' and ')}`;
 }
 
 /** [first, last] positions of each segment, from the starts of segments 2…K. */

@@ -9,6 +9,8 @@
 import type { Branch, Side, SidePicks } from '../branches/types.js';
 import { fitLine } from '../branches/line-fit.js';
 import { chiSquareSurvival } from '../stats/chi-square.js';
+import { normalQuantile } from '../branches/normal.js';
+import { studentTQuantile } from '../branches/student-t.js';
 import type { InterpretationWarning } from './warning.js';
 
 export interface BranchContext {
@@ -32,8 +34,39 @@ export const OUTLIER_STANDARDISED_RESIDUAL = 3;
 export const AIR_WAVE_BAND: readonly [number, number] = [320, 350];
 /** Water-table band, m/s (common practice: saturated sediment ≈ 1500 m/s; METHODS §4 gives 1450–1550). */
 export const WATER_TABLE_BAND: readonly [number, number] = [1450, 1550];
-/** Intercept of a free direct-wave fit must be within this many SE of zero (METHODS §4 constraint 4). */
-export const DIRECT_ORIGIN_SE = 3;
+/**
+ * Two-sided probability of the direct-wave origin test: the Student-t equivalent of METHODS §4
+ * constraint 4's "within 3 SE" (3 SE of a normal variable, P = 0.9973), so branches of few picks
+ * (1–2 degrees of freedom) are not called wrong ten times too often.
+ */
+export const DIRECT_ORIGIN_PROBABILITY = 0.9973;
+
+export interface DirectInterceptTest {
+  /** Free-line intercept, s, and its SE. */
+  readonly intercept: number;
+  readonly interceptSE: number;
+  /** |intercept| may reach this before the branch is said to miss the origin, s. */
+  readonly allowed: number;
+  readonly passes: boolean;
+}
+
+/**
+ * Does the free-intercept line through a branch pass through the time origin? It passes when
+ * |a| ≤ max(t_{(1+P)/2, ν}·SE(a), time resolution) with P = `DIRECT_ORIGIN_PROBABILITY` and ν the
+ * fit's degrees of freedom; the time-resolution floor keeps exact or rounded picks from failing on
+ * a difference no seismograph resolves. Returns null when the free line cannot be fitted.
+ */
+export function directInterceptTest(sidePicks: SidePicks, members: readonly number[], timeResolution: number): DirectInterceptTest | null {
+  const offsets = members.map((position) => sidePicks.offsets[position] ?? Number.NaN);
+  const times = members.map((position) => sidePicks.times[position] ?? Number.NaN);
+  const sigmas = sidePicks.sigmas ? members.map((position) => sidePicks.sigmas?.[position] ?? Number.NaN) : null;
+  const outcome = fitLine(offsets, times, sigmas, { method: 'least-squares', throughOrigin: false });
+  if (!outcome.ok) return null;
+  const { intercept, interceptSE, degreesOfFreedom, weighted } = outcome.fit;
+  const quantile = weighted || degreesOfFreedom < 1 ? normalQuantile((1 + DIRECT_ORIGIN_PROBABILITY) / 2) : studentTQuantile((1 + DIRECT_ORIGIN_PROBABILITY) / 2, degreesOfFreedom);
+  const allowed = Math.max(quantile * interceptSE, timeResolution);
+  return { intercept, interceptSE, allowed, passes: Math.abs(intercept) <= allowed };
+}
 
 function where(context: BranchContext): string {
   return `shot ${context.shot}, ${context.side} side, branch ${context.branch.index}`;
@@ -209,28 +242,24 @@ export function knownArrivalWarnings(context: BranchContext): InterpretationWarn
 }
 
 /**
- * Direct branch of a surface shot: refit with a free intercept; an intercept more than 3 SE from
- * zero means a time-zero (trigger) error, a wrong source position or a buried shot. Branches of
- * fewer than 3 picks are not judged (no residual freedom).
+ * Direct branch of a surface shot: refit with a free intercept (`directInterceptTest`); an
+ * intercept beyond what its uncertainty allows means a time-zero (trigger) error, a wrong source
+ * position or a buried shot. Branches of fewer than 3 picks are not judged (no residual freedom).
  */
-export function directOriginWarnings(context: BranchContext): InterpretationWarning[] {
+export function directOriginWarnings(context: BranchContext, timeResolution: number): InterpretationWarning[] {
   const { branch, sidePicks } = context;
   if (branch.index !== 1 || !sidePicks.surfaceShot || branch.members.length < 3) return [];
-  const offsets = branch.members.map((position) => sidePicks.offsets[position] ?? Number.NaN);
-  const times = branch.members.map((position) => sidePicks.times[position] ?? Number.NaN);
-  const sigmas = sidePicks.sigmas ? branch.members.map((position) => sidePicks.sigmas?.[position] ?? Number.NaN) : null;
-  const outcome = fitLine(offsets, times, sigmas, { method: branch.fit.method, throughOrigin: false });
-  if (!outcome.ok || !(outcome.fit.interceptSE > 0)) return [];
-  const ratio = outcome.fit.intercept / outcome.fit.interceptSE;
-  if (Math.abs(ratio) <= DIRECT_ORIGIN_SE) return [];
-  const milliseconds = outcome.fit.intercept * 1000;
+  const test = directInterceptTest(sidePicks, branch.members, timeResolution);
+  if (test === null || test.passes) return [];
+  const milliseconds = test.intercept * 1000;
+  const ratio = test.interceptSE > 0 ? ` (${Math.abs(test.intercept / test.interceptSE).toFixed(1)} standard errors)` : '';
   return [
     {
       code: 'direct-not-through-origin',
       level: 'warning',
-      message: `${where(context)}: the direct-wave line meets zero offset at ${milliseconds.toFixed(2)} ms, ${Math.abs(ratio).toFixed(1)} standard errors from zero; check the trigger (time zero), the source position, or give the shot depth and uphole time if the shot was buried`,
+      message: `${where(context)}: the direct-wave line meets zero offset at ${milliseconds.toFixed(2)} ms${ratio}, not at zero; check the trigger (time zero) and the source position, and whether the shot was buried (slopebreak does not yet correct for shot depth)`,
       ...base(context),
-      details: { freeIntercept: outcome.fit.intercept, interceptSE: outcome.fit.interceptSE },
+      details: { freeIntercept: test.intercept, interceptSE: test.interceptSE, allowed: test.allowed },
     },
   ];
 }
@@ -243,6 +272,6 @@ export function branchWarnings(context: BranchContext, timeResolution: number): 
     ...outlierWarnings(context),
     ...unboundedVelocityWarnings(context),
     ...knownArrivalWarnings(context),
-    ...directOriginWarnings(context),
+    ...directOriginWarnings(context, timeResolution),
   ];
 }

@@ -44,7 +44,7 @@
 import type { LayeredModel } from '../model/layered-model.js';
 import { headWaveIntercept } from '../model/layered-model.js';
 import type { InterpretationWarning } from './warning.js';
-import { describeShotSide, formatQuantity, type ShotSide } from './wording.js';
+import { describeShotSide, formatQuantity, placeFields, type ShotSide } from './wording.js';
 
 /** What a hidden layer between interpreted layers a and b = a + 1 could be and would do. */
 export interface HiddenLayerAssessment {
@@ -174,46 +174,61 @@ export function assessHiddenLayer(model: LayeredModel, upperLayer: number, inter
   };
 }
 
-function metres(value: number): string {
-  return formatQuantity(value, 'm', 3);
-}
 
 /**
- * One `hidden-layer-possible` warning (level `caution`) per adjacent pair of interpreted layers
- * where a layer of intermediate velocity could hide, with details {intermediateVelocity,
- * maxHiddenThickness, depthErrorIfPresent} (SI) and `layer` = the lower layer b, whose depth it
- * affects. `intermediateVelocities[a − 1]` overrides V_m for pair a (default √(V_a·V_b)).
+ * A possible hidden layer is a `caution` when the depth error it could cause exceeds both this many
+ * standard errors of the interpreted depth and this fraction of it; below that it is reported as
+ * `info` (choice made here: a bound always exists, but only a material one needs attention).
+ */
+export const HIDDEN_LAYER_SE = 2;
+export const HIDDEN_LAYER_FRACTION = 0.05;
+
+/**
+ * One `hidden-layer-possible` warning per adjacent pair of interpreted layers where a layer of
+ * intermediate velocity could hide, with details {intermediateVelocity, maxHiddenThickness,
+ * depthIfPresent, interpretedDepth, depthErrorIfPresent} (SI) and `layer` = the lower layer b,
+ * whose depth it affects. `intermediateVelocities[a − 1]` overrides V_m for pair a (default
+ * √(V_a·V_b)); `depthStandardErrors[a − 1]` is the SE of the interpreted depth to layer b, which
+ * decides the level (`HIDDEN_LAYER_SE`, `HIDDEN_LAYER_FRACTION`; 0 when not given). A null place
+ * speaks of the survey as a whole.
  *
  * Edges: a pair whose bound is 0 (an upper layer of zero thickness) gives no warning; a one-layer
  * model gives none. Misuse throws as `assessHiddenLayer`.
  */
 export function hiddenLayerWarnings(
-  place: ShotSide,
+  place: ShotSide | null,
   model: LayeredModel,
   intermediateVelocities: readonly (number | undefined)[] = [],
+  depthStandardErrors: readonly number[] = [],
 ): InterpretationWarning[] {
   const warnings: InterpretationWarning[] = [];
   if (model.velocities.length < 2) return warnings;
   for (let upperLayer = 1; upperLayer < model.velocities.length; upperLayer += 1) {
     const assessment = assessHiddenLayer(model, upperLayer, intermediateVelocities[upperLayer - 1]);
     if (!(assessment.maxHiddenThickness > 0)) continue;
+    const error = Math.abs(assessment.depthErrorIfPresent);
+    const depthSE = depthStandardErrors[upperLayer - 1] ?? 0;
+    const material = error > HIDDEN_LAYER_SE * depthSE && error > HIDDEN_LAYER_FRACTION * assessment.interpretedDepth;
     const upperVelocity = model.velocities[upperLayer - 1] ?? Number.NaN;
     const lowerVelocity = model.velocities[upperLayer] ?? Number.NaN;
+    const lower = assessment.lowerLayer;
     warnings.push({
       code: 'hidden-layer-possible',
-      level: 'caution',
+      level: material ? 'caution' : 'info',
       message:
         `${describeShotSide(place)}: a layer of about ${formatQuantity(assessment.intermediateVelocity, 'm/s')} between layer ${upperLayer} ` +
-        `(${formatQuantity(upperVelocity, 'm/s')}) and layer ${assessment.lowerLayer} (${formatQuantity(lowerVelocity, 'm/s')}) could be up to ` +
-        `${metres(assessment.maxHiddenThickness)} thick without giving any first arrival; if it is there, the top of layer ${assessment.lowerLayer} ` +
-        `is at ${metres(assessment.depthIfPresent)}, not ${metres(assessment.interpretedDepth)} (${metres(-assessment.depthErrorIfPresent)} too shallow) — ` +
-        'confirm the layering with a borehole or a velocity log before relying on this depth',
-      shot: place.shot,
-      side: place.side,
-      layer: assessment.lowerLayer,
+        `(${formatQuantity(upperVelocity, 'm/s')}) and layer ${lower} (${formatQuantity(lowerVelocity, 'm/s')}) could be up to ` +
+        `${formatQuantity(assessment.maxHiddenThickness, 'm', 3)} thick without ever arriving first; if it is there, the top of layer ${lower} ` +
+        `is at ${formatQuantity(assessment.depthIfPresent, 'm', 3)}, not ${formatQuantity(assessment.interpretedDepth, 'm', 3)} ` +
+        `(${formatQuantity(error, 'm', 3)} too shallow${material ? ', more than the depth uncertainty' : ', within the depth uncertainty'}) — ` +
+        'a borehole, an uphole or downhole velocity survey, or that layer\'s head wave picked as a later arrival and assigned by hand settles it',
+      ...placeFields(place),
+      layer: lower,
       details: {
         intermediateVelocity: assessment.intermediateVelocity,
         maxHiddenThickness: assessment.maxHiddenThickness,
+        depthIfPresent: assessment.depthIfPresent,
+        interpretedDepth: assessment.interpretedDepth,
         depthErrorIfPresent: assessment.depthErrorIfPresent,
       },
     });

@@ -13,7 +13,7 @@ import type { DepthComparison } from '../depth/crossover-distance.js';
 import type { LayeredModel } from '../model/layered-model.js';
 import { criticalDistance } from '../model/layered-model.js';
 import type { InterpretationWarning, WarningCode } from './warning.js';
-import { describeShotSide, formatQuantity, type ShotSide } from './wording.js';
+import { describeShotSide, formatQuantity, placeFields, type ShotSide } from './wording.js';
 
 /** A later branch is called slower when its slowness exceeds the earlier one's by more than this many SEs of the difference (chosen here: about the 95 % level of a normal test). */
 export const INVERSION_SEPARATION = 2;
@@ -124,12 +124,13 @@ export function headWavePrecriticalWarnings(
  * too few receivers for a trustworthy velocity and depth.
  *
  * Edges: a deepest depth ≤ 0 or not finite gives no warning (no depth is claimed); an offset of
- * exactly 3 × the depth passes. Throws for a negative or non-finite farthest offset.
+ * exactly 3 × the depth passes; a null place speaks of the survey as a whole (its longest offset
+ * against its deepest interface). Throws for a negative or non-finite farthest offset.
  *
  * @example
  * spreadTooShortWarnings({ shot: 'S1', side: 'forward' }, 40, 15); // 40 < 45: one warning
  */
-export function spreadTooShortWarnings(place: ShotSide, farthestOffset: number, deepestDepth: number): InterpretationWarning[] {
+export function spreadTooShortWarnings(place: ShotSide | null, farthestOffset: number, deepestDepth: number): InterpretationWarning[] {
   if (!(farthestOffset >= 0) || !Number.isFinite(farthestOffset)) {
     throw new RangeError(`spreadTooShortWarnings: the farthest offset must be zero or positive and finite, got ${farthestOffset}`);
   }
@@ -144,17 +145,16 @@ export function spreadTooShortWarnings(place: ShotSide, farthestOffset: number, 
         `${describeShotSide(place)}: the farthest offset ${formatQuantity(farthestOffset, 'm')} is less than ${SPREAD_DEPTH_RATIO} × the deepest ` +
         `depth claimed (${formatQuantity(deepestDepth, 'm')}), so the deepest refractor is seen over too few receivers; lengthen the spread to at ` +
         `least ${formatQuantity(needed, 'm')} (common practice: 3 to 5 times the target depth) or treat that depth as indicative`,
-      shot: place.shot,
-      side: place.side,
+      ...placeFields(place),
       details: { farthestOffset, deepestDepth, neededOffset: needed },
     },
   ];
 }
 
 /**
- * `depth-methods-disagree`: one warning per interface that `depthsDisagree` flagged (the
- * intercept-time depth against the crossover-distance depth from the observed crossover bracket,
- * METHODS §2), naming the layer whose top it is.
+ * `depth-methods-disagree`: one warning per interface whose intercept-time depth (± SE) misses the
+ * depth bracket of the crossover-distance method (`depthOutsideBracket`, METHODS §2), naming the
+ * layer whose top it is and both methods.
  *
  * Edges: comparisons that agree give nothing; an empty list gives nothing.
  */
@@ -165,14 +165,20 @@ export function depthMethodsDisagreeWarnings(place: ShotSide, comparisons: reado
       code: 'depth-methods-disagree' as const,
       level: 'warning' as const,
       message:
-        `${describeShotSide(place)}, layer ${comparison.interface + 1}: the depth to its top is ${formatQuantity(comparison.depthA, 'm')} by one ` +
-        `method and ${formatQuantity(comparison.depthB, 'm')} by the other, ${formatQuantity(Math.abs(comparison.difference), 'm', 3)} apart against a ` +
-        `combined standard error of ${formatQuantity(comparison.combinedSE, 'm', 3)}; a wrong branch split, a lateral change or a hidden layer — ` +
-        'check where the branches cross on the plot and the branch split',
+        `${describeShotSide(place)}, top of layer ${comparison.interface + 1}: the intercept-time method puts it at ` +
+        `${formatQuantity(comparison.interceptTimeDepth, 'm', 3)} ± ${formatQuantity(comparison.interceptTimeSE, 'm', 2)}, outside the ` +
+        `${formatQuantity(comparison.bracketLow, 'm', 3)} to ${formatQuantity(comparison.bracketHigh, 'm', 3)} that the crossover-distance method allows ` +
+        'from where the picks change branch; a wrong branch split, a lateral change or a hidden layer — look at the picks either side of the crossover ' +
+        'and assign their branches by hand if the split is wrong',
       shot: place.shot,
       side: place.side,
       layer: comparison.interface + 1,
-      details: { depthA: comparison.depthA, depthB: comparison.depthB, difference: comparison.difference, combinedSE: comparison.combinedSE },
+      details: {
+        interceptTimeDepth: comparison.interceptTimeDepth,
+        interceptTimeSE: comparison.interceptTimeSE,
+        bracketLow: comparison.bracketLow,
+        bracketHigh: comparison.bracketHigh,
+      },
     }));
 }
 
@@ -217,15 +223,3 @@ export function depthNoteWarnings(place: ShotSide, notes: readonly DepthNote[]):
   return [...byKey.values()].map(({ warning, count }) => ({ ...warning, details: { notes: count } }));
 }
 
-/**
- * The standing caution about velocity inversions (METHODS §9): a layer slower than the one above
- * gives no head wave, so first arrivals alone can never reveal it, and the depths below it come
- * out too large. Printed with every horizontal-layer interpretation, whatever the data.
- */
-export function velocityInversionCaution(): string {
-  return (
-    'A layer slower than the layer above it (a velocity inversion) sends no head wave to the surface, so it cannot be detected ' +
-    'from first arrivals at all; if one is present, every depth below it comes out too large. Where one is suspected, insert its ' +
-    'velocity from a borehole, an uphole survey or a velocity log.'
-  );
-}

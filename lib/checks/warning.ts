@@ -34,7 +34,7 @@ export const WARNING_CODES = {
   'branch-outlier-picks': 'The robust fit gave some picks almost no weight: they are probably mispicks.',
   'direct-not-through-origin': 'The direct-wave line does not pass through the origin: time-zero error, trigger delay, wrong source position or a buried shot.',
   'velocity-unbounded': 'The apparent slowness is so uncertain that the velocity has no upper bound.',
-  'segmentation-constraint-failed': 'The statistically best split of the picks into branches was physically implausible; the next best plausible split is used.',
+  'segmentation-constraint-failed': 'The statistically best split of the picks into branches failed a physical constraint; which split was used, and why, is in the message.',
   'air-wave-suspected': 'A branch travels at the speed of sound in air: an air blast, not a layer.',
   'water-table-suspected': 'A branch travels at about 1500 m/s: probably the water table in unconsolidated sediment, not rock.',
   'user-branch-gap': 'User-assigned branches skip a branch number; the missing layer is taken from other shots or left out.',
@@ -50,6 +50,10 @@ export const WARNING_CODES = {
   'missing-layer-branch': 'A shot side shows no branch for a layer seen on other shots.',
   // --- forward model
   'model-misfit': 'The interpreted model explains this shot worse than the picks\' uncertainty.',
+  // --- the survey as a whole
+  'zero-offset-picks': 'Picks at the source position belong to neither side of the shot and are not fitted.',
+  'nothing-interpreted': 'No shot side had a branch that could be fitted, so no layer is reported.',
+  'corrections-not-applied': 'Shot depths, uphole times or ground elevations were given but are not yet corrected for by the horizontal-layer methods.',
 } as const;
 
 export type WarningCode = keyof typeof WARNING_CODES;

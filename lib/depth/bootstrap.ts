@@ -7,7 +7,7 @@
  * intercept-time method. The spread of the replicate depths is the bootstrap standard error, and
  * the 2.5 and 97.5 percentiles the 95 % interval. When picks carry sigmas, the residuals are
  * standardised by their own sigma before resampling and rescaled by the sigma of the pick they are
- * added to (heteroscedastic picks).
+ * added to (heteroscedastic picks). Residuals of a line through the origin are centred first.
  *
  * Assumptions: the branch assignment is held fixed (breakpoint uncertainty is not included); the
  * residuals of a branch are exchangeable. Where it fails: a branch with 2 picks has no residual
@@ -123,10 +123,11 @@ function prepareBranch(branch: BootstrapBranch): PreparedBranch {
   const freedom = count - parameterCount;
   const inflation = freedom > 0 ? Math.sqrt(count / freedom) : 0;
   const fitted = offsets.map((offset) => fit.intercept + fit.slope * offset);
-  const scaledResiduals = fit.residuals.map((residual, k) => {
-    const standardised = sigmas ? residual / (sigmas[k] ?? 1) : residual;
-    return standardised * inflation;
-  });
+  const standardised = fit.residuals.map((residual, k) => (sigmas ? residual / (sigmas[k] ?? 1) : residual));
+  // A line through the origin leaves residuals that need not average zero: centre them, so the
+  // resampled errors have mean zero as the model assumes (Efron & Tibshirani 1993, regression chapter).
+  const centre = fit.throughOrigin && standardised.length > 0 ? standardised.reduce((sum, value) => sum + value, 0) / standardised.length : 0;
+  const scaledResiduals = standardised.map((value) => (value - centre) * inflation);
   return { offsets, sigmas, fit, fitted, scaledResiduals };
 }
 

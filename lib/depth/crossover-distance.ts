@@ -199,42 +199,44 @@ export function observedCrossover(lastOffsetOfLowerBranch: number, firstOffsetOf
   return { distance: (lastOffsetOfLowerBranch + firstOffsetOfUpperBranch) / 2, variance: (width * width) / 12 };
 }
 
-/** One interface compared between two depth results. */
+/** The intercept-time depth of one interface against the depth range the crossover bracket allows. */
 export interface DepthComparison {
   /** Interface k is the top of layer k + 1 (depth z_k). */
   readonly interface: number;
-  readonly depthA: number;
-  readonly depthB: number;
-  /** depthA − depthB, m. */
-  readonly difference: number;
-  /** √(SE_A² + SE_B²), m: the two results are treated as independent. */
-  readonly combinedSE: number;
-  /** True when |difference| > k·combinedSE. */
+  /** Intercept-time depth and its standard error, m. */
+  readonly interceptTimeDepth: number;
+  readonly interceptTimeSE: number;
+  /** Depths from the two ends of the crossover bracket, m (low ≤ high). */
+  readonly bracketLow: number;
+  readonly bracketHigh: number;
+  /** True when [z − SE, z + SE] does not meet [bracketLow, bracketHigh]. */
   readonly disagree: boolean;
 }
 
 /**
- * Compare two depth results interface by interface: they disagree at z_k when
- * |z_k^A − z_k^B| > k·√(SE_A² + SE_B²) (default k = 2). Meant for the intercept-time depths against
- * the crossover-distance depths from observed crossovers (independent readings, METHODS §2).
+ * METHODS §2 "Agreement": with the crossover read from the picks as a bracket — between the last
+ * pick of branch n and the first of branch n+1 — the crossover-distance method gives a depth
+ * bracket (the depths from the bracket's two ends, `low` and `high`); the intercept-time depth,
+ * ± one standard error, must meet it, else the two methods disagree (mis-segmentation, lateral
+ * change or a hidden layer).
  *
- * Edges: compares up to the shorter of the two depth lists (a result whose stack stopped early has
- * fewer interfaces); a combined SE of 0 flags any non-zero difference. Throws for k not positive
- * and finite.
+ * Edges: compares up to the shortest of the three depth lists; a bracket given high-to-low is
+ * reordered; an SE of 0 flags any depth outside the bracket.
  *
  * @example
- * depthsDisagree(interceptTimeDepths(branches), crossoverDistanceDepths(s, observed)); // [{ interface: 1, … }]
+ * depthOutsideBracket(interceptTimeDepths(branches), depthsAtLowEnds, depthsAtHighEnds); // [{ interface: 1, disagree: false, … }]
  */
-export function depthsDisagree(a: LayerDepths, b: LayerDepths, k = 2): DepthComparison[] {
-  if (!(k > 0) || !Number.isFinite(k)) throw new RangeError(`depthsDisagree: k must be positive and finite, got ${k}`);
-  const count = Math.min(a.depths.length, b.depths.length);
+export function depthOutsideBracket(interceptTime: LayerDepths, low: LayerDepths, high: LayerDepths): DepthComparison[] {
+  const count = Math.min(interceptTime.depths.length, low.depths.length, high.depths.length);
   const comparisons: DepthComparison[] = [];
   for (let index = 0; index < count; index += 1) {
-    const depthA = a.depths[index] ?? Number.NaN;
-    const depthB = b.depths[index] ?? Number.NaN;
-    const difference = depthA - depthB;
-    const combinedSE = Math.hypot(a.depthSE[index] ?? Number.NaN, b.depthSE[index] ?? Number.NaN);
-    comparisons.push({ interface: index + 1, depthA, depthB, difference, combinedSE, disagree: Math.abs(difference) > k * combinedSE });
+    const depth = interceptTime.depths[index] ?? Number.NaN;
+    const standardError = interceptTime.depthSE[index] ?? Number.NaN;
+    const ends = [low.depths[index] ?? Number.NaN, high.depths[index] ?? Number.NaN];
+    const bracketLow = Math.min(...ends);
+    const bracketHigh = Math.max(...ends);
+    const disagree = depth + standardError < bracketLow || depth - standardError > bracketHigh;
+    comparisons.push({ interface: index + 1, interceptTimeDepth: depth, interceptTimeSE: standardError, bracketLow, bracketHigh, disagree });
   }
   return comparisons;
 }

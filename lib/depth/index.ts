@@ -4,7 +4,7 @@ export { ILL_CONDITIONED_SEPARATION, interceptTimeDepths, interceptTimeRecursion
 // The crossover-distance method, crossovers from fitted lines or from the picks, and the comparison of two depth results.
 export {
   crossoverDistanceDepths,
-  depthsDisagree,
+  depthOutsideBracket,
   fittedCrossovers,
   observedCrossover,
   type CrossoverReading,

@@ -7,28 +7,27 @@
  * refractor through the origin and average it into the top layer.
  *
  * Rule (METHODS §4, constraint 4, used to identify rather than to reject): a side starts with the
- * direct wave when the free-intercept line through its first branch meets zero offset within
- * `DIRECT_ORIGIN_SE` standard errors of zero, or within the time resolution. Those sides are the
+ * direct wave when the free-intercept line through its first branch passes `directInterceptTest`
+ * (the same test the `direct-not-through-origin` check uses). Those sides are the
  * reference: their branch n is layer n, and the layer's reference slowness is the mean of theirs.
  * Any other side's first branch is the layer whose reference slowness is nearest in ratio; when
  * that is layer 1, the branch stays the direct wave (a time-zero or source-position error, which
  * the `direct-not-through-origin` check reports).
  *
- * Edges: user-assigned sides keep their numbers; with no reference side nothing is renumbered; a
- * side with no branch keeps index 1.
+ * Edges: user-assigned sides keep their numbers; when no side starts with the direct wave (only
+ * off-end shots, or every shot with the same time-zero error) every automatic side starts at
+ * branch 2, so no head wave is forced through the origin and the top-layer velocity is left
+ * unknown; a side with no branch keeps index 1.
  */
 import type { SideSegmentation } from '../branches/types.js';
 import { fitBranchMembers } from '../branches/branch-fit.js';
-import { DIRECT_ORIGIN_SE } from '../checks/branch-checks.js';
+import { directInterceptTest } from '../checks/branch-checks.js';
 
-/** True when the first branch of the side passes through the time origin (see the rule above). */
+/** True when the first branch of the side passes through the time origin (`directInterceptTest`). */
 export function startsWithDirectWave(segmentation: SideSegmentation, timeResolution: number): boolean {
   const first = segmentation.branches[0];
   if (!first || first.index !== 1) return false;
-  const outcome = fitBranchMembers(segmentation.sidePicks, first.members, { method: 'least-squares', throughOrigin: false });
-  if (!outcome.ok) return true;
-  const { intercept, interceptSE } = outcome.fit;
-  return Math.abs(intercept) <= Math.max(DIRECT_ORIGIN_SE * interceptSE, timeResolution);
+  return directInterceptTest(segmentation.sidePicks, first.members, timeResolution)?.passes ?? true;
 }
 
 /** The index the first branch of each side should carry, in input order. */
@@ -49,7 +48,8 @@ export function firstBranchIndices(segmentations: readonly SideSegmentation[], t
   const reference = referenceSums.map((sum, slot) => sum / (referenceCounts[slot] ?? 1));
   return segmentations.map((segmentation, k) => {
     const first = segmentation.branches[0];
-    if (direct[k] || !first || reference.length === 0) return first?.index ?? 1;
+    if (direct[k] || !first) return first?.index ?? 1;
+    if (reference.length === 0) return segmentation.assignedBy === 'user' ? first.index : 2;
     // The reported fit of a branch numbered 1 went through the origin; judge the free line instead.
     const free = fitBranchMembers(segmentation.sidePicks, first.members, { method: 'least-squares', throughOrigin: false });
     const slope = free.ok ? free.fit.slope : first.fit.slope;

@@ -37,32 +37,37 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
   const { combined, pickSet } = result;
 
   const { thicknesses, covariance: thicknessCovariance } = thicknessesFromDepths(combined.depths, combined.depthCovariance);
+  // The survey model decides what is resolved: layers 1…M with the last one the half-space; a layer
+  // seen beyond it has a velocity but no depth (the warnings say why).
+  const resolved = result.model?.velocities.length ?? 0;
   const layers: LayerResult[] = [];
   combined.slownesses.forEach((entry, k) => {
     if (entry === null || !(entry.value > 0)) return;
     const index = k + 1;
-    const isHalfSpace = k >= combined.depths.length;
+    const hasTop = index <= resolved;
+    const hasThickness = index < resolved;
     const depthToTop = k === 0 ? 0 : (combined.depths[k - 1] ?? Number.NaN);
     const depthToTopSE = k === 0 ? 0 : Math.sqrt(combined.depthCovariance[k - 1]?.[k - 1] ?? Number.NaN);
     layers.push({
       index,
       velocity: velocity(1 / entry.value),
       velocitySE: velocity(entry.standardError / (entry.value * entry.value)),
-      thickness: isHalfSpace ? null : distance(thicknesses[k] ?? Number.NaN),
-      thicknessSE: isHalfSpace ? null : distance(Math.sqrt(thicknessCovariance[k]?.[k] ?? Number.NaN)),
-      depthToTop: distance(depthToTop),
-      depthToTopSE: distance(depthToTopSE),
+      thickness: hasThickness ? distance(thicknesses[k] ?? Number.NaN) : null,
+      thicknessSE: hasThickness ? distance(Math.sqrt(thicknessCovariance[k]?.[k] ?? Number.NaN)) : null,
+      depthToTop: hasTop ? distance(depthToTop) : null,
+      depthToTopSE: hasTop ? distance(depthToTopSE) : null,
       shotSides: entry.contributors,
       velocityFrom: {
         method: `weighted mean of the branch-${index} slownesses of ${entry.contributors} shot side(s)`,
         references: VELOCITY_REFERENCES,
       },
       depthFrom: {
-        method:
-          k === 0
+        method: !hasTop
+          ? 'not resolved (see the warnings)'
+          : k === 0
             ? 'ground surface'
             : `intercept-time method (plane horizontal layers) under ${combined.depthSides[k - 1] ?? 0} shot side(s), weighted by their full covariance`,
-        references: k === 0 ? [] : DEPTH_REFERENCES,
+        references: hasTop && k > 0 ? DEPTH_REFERENCES : [],
       },
     });
   });
@@ -211,8 +216,8 @@ function shapeBranch(branch: Branch, side: SideResult, result: SurveyResult, uni
     pickCount: fit.count,
     firstOffset: distance(branch.firstOffset),
     lastOffset: distance(branch.lastOffset),
-    apparentVelocity: velocity(fit.apparentVelocity),
-    apparentVelocitySE: velocity(fit.apparentVelocitySE),
+    apparentVelocity: fit.slope > 0 ? velocity(fit.apparentVelocity) : null,
+    apparentVelocitySE: fit.slope > 0 ? velocity(fit.apparentVelocitySE) : null,
     apparentVelocityInterval95: fit.velocityInterval95 ? [velocity(fit.velocityInterval95[0]), velocity(fit.velocityInterval95[1])] : null,
     interceptTime: time(fit.intercept),
     interceptTimeSE: time(fit.interceptSE),

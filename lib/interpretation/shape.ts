@@ -36,9 +36,12 @@ export const LayerSchema = z.strictObject({
   /** null for the half-space. */
   thickness: nullableNumber,
   thicknessSE: nullableNumber,
-  /** Depth below ground to the top of this layer (0 for layer 1). */
-  depthToTop: num,
-  depthToTopSE: num,
+  /**
+   * Depth below ground to the top of this layer (0 for layer 1); null when the layer's velocity is
+   * measured but its depth is not resolved (a warning says why).
+   */
+  depthToTop: nullableNumber,
+  depthToTopSE: nullableNumber,
   /** How many shot sides saw this layer's branch. */
   shotSides: z.number().int().min(0),
   velocityFrom: ProvenanceSchema,
@@ -65,8 +68,9 @@ export const BranchResultSchema = z.strictObject({
   pickCount: z.number().int(),
   firstOffset: num,
   lastOffset: num,
-  apparentVelocity: num,
-  apparentVelocitySE: num,
+  /** null when the branch's time does not grow with offset (no velocity). */
+  apparentVelocity: nullableNumber,
+  apparentVelocitySE: nullableNumber,
   /** 95 % interval from the Student-t slope interval; null when the velocity is unbounded. */
   apparentVelocityInterval95: z.tuple([num, num]).nullable(),
   interceptTime: num,

@@ -12,28 +12,23 @@ import type { InterpretationWarning } from '../checks/warning.js';
 import type { SideResult } from '../interpret.js';
 import type { CombinedLayers } from './survey-layers.js';
 import type { ForwardResiduals } from './residuals.js';
-import { depthsDisagree } from '../depth/crossover-distance.js';
+import { depthOutsideBracket } from '../depth/crossover-distance.js';
 import {
   depthMethodsDisagreeWarnings,
   depthNoteWarnings,
   headWavePrecriticalWarnings,
-  SPREAD_DEPTH_RATIO,
+  spreadTooShortWarnings,
   velocityInversionWarnings,
 } from '../checks/layering.js';
-import { assessHiddenLayer } from '../checks/hidden-layer.js';
+import { hiddenLayerWarnings } from '../checks/hidden-layer.js';
+import { WATER_TABLE_BAND } from '../checks/branch-checks.js';
 import { describeShotSide, formatQuantity } from '../checks/wording.js';
+import { picksLeftOutOfSides } from '../branches/sides.js';
 
 /** Probability below which shot sides are called inconsistent (the χ² test of METHODS §3, P < 0.01). */
 export const LATERAL_VARIATION_PROBABILITY = 0.01;
 /** A shot misfits when its RMS exceeds this many pick sigmas (METHODS §12: RMS > 2·σ_pick). */
 export const MISFIT_SIGMAS = 2;
-/**
- * A possible hidden layer is raised to a caution when the depth error it could cause exceeds both
- * this many standard errors of the depth and this fraction of it; below that it is reported as
- * information (choice made here: a bound always exists, but only a material one needs attention).
- */
-export const HIDDEN_LAYER_SE = 2;
-export const HIDDEN_LAYER_FRACTION = 0.05;
 /** A side must reach this far beyond a survey crossover before a missing branch is remarkable (fraction of the crossover). */
 export const MISSING_BRANCH_MARGIN = 0.25;
 
@@ -53,17 +48,20 @@ export function sideWarnings(side: SideResult, model: LayeredModel | null): Inte
     });
   }
 
-  warnings.push(
-    ...velocityInversionWarnings(
-      place,
-      branches.map((branch) => ({ branch: branch.index, slowness: branch.fit.slope, slownessSE: branch.fit.slopeSE })),
-    ),
+  const inversions = velocityInversionWarnings(
+    place,
+    branches.map((branch) => ({ branch: branch.index, slowness: branch.fit.slope, slownessSE: branch.fit.slopeSE })),
   );
+  warnings.push(...inversions);
 
   if (side.interceptTime) {
-    warnings.push(...depthNoteWarnings(place, side.interceptTime.notes));
-    if (side.crossoverDistance) {
-      warnings.push(...depthMethodsDisagreeWarnings(place, depthsDisagree(side.interceptTime, side.crossoverDistance)));
+    // A branch slower than the one above is reported once, by the inversion check above.
+    const notes = side.interceptTime.notes.filter((note) => !(note.code === 'velocity-not-increasing' && inversions.length > 0));
+    warnings.push(...depthNoteWarnings(place, notes));
+    if (side.crossoverBracket) {
+      warnings.push(
+        ...depthMethodsDisagreeWarnings(place, depthOutsideBracket(side.interceptTime, side.crossoverBracket.low, side.crossoverBracket.high)),
+      );
     }
     const sideModel = modelUnderSide(side);
     if (sideModel) {
@@ -126,57 +124,129 @@ export interface SurveyCheckInput {
 }
 
 export function surveyWarnings(input: SurveyCheckInput): InterpretationWarning[] {
-  return [...hiddenLayerSurveyWarnings(input), ...spreadWarnings(input), ...lateralVariationWarnings(input), ...misfitWarnings(input)];
+  return [
+    ...pickUseWarnings(input),
+    ...correctionWarnings(input),
+    ...resolutionWarnings(input),
+    ...hiddenLayerSurveyWarnings(input),
+    ...spreadWarnings(input),
+    ...waterTableWarnings(input),
+    ...lateralVariationWarnings(input),
+    ...misfitWarnings(input),
+  ];
 }
 
-/** For each adjacent pair of survey layers, the largest hidden layer and what it would do (Soske 1959; METHODS §9). */
-function hiddenLayerSurveyWarnings({ model, combined }: SurveyCheckInput): InterpretationWarning[] {
-  if (!model || model.velocities.length < 2) return [];
+/** Picks that take no part: at the source position (no side), and none at all interpreted. */
+function pickUseWarnings({ pickSet, combined }: SurveyCheckInput): InterpretationWarning[] {
   const warnings: InterpretationWarning[] = [];
-  for (let upperLayer = 1; upperLayer < model.velocities.length; upperLayer += 1) {
-    const assessment = assessHiddenLayer(model, upperLayer);
-    if (!(assessment.maxHiddenThickness > 0)) continue;
-    const depthSE = Math.sqrt(combined.depthCovariance[upperLayer - 1]?.[upperLayer - 1] ?? 0);
-    const error = Math.abs(assessment.depthErrorIfPresent);
-    const material = error > HIDDEN_LAYER_SE * depthSE && error > HIDDEN_LAYER_FRACTION * assessment.interpretedDepth;
-    const lower = assessment.lowerLayer;
+  const { zeroOffset } = picksLeftOutOfSides(pickSet);
+  if (zeroOffset.length > 0) {
+    const lines = zeroOffset.slice(0, 5).map((index) => pickSet.picks[index]?.line ?? 0).join(', ');
     warnings.push({
-      code: 'hidden-layer-possible',
-      level: material ? 'caution' : 'info',
-      message:
-        `survey, layers ${upperLayer} and ${lower}: a layer of about ${formatQuantity(assessment.intermediateVelocity, 'm/s')} up to ` +
-        `${formatQuantity(assessment.maxHiddenThickness, 'm', 3)} thick could lie between them without ever arriving first; if it is there, the top of layer ${lower} is at ` +
-        `${formatQuantity(assessment.depthIfPresent, 'm', 3)}, not ${formatQuantity(assessment.interpretedDepth, 'm', 3)} (${formatQuantity(error, 'm', 3)} too shallow)` +
-        (material ? ', more than the depth uncertainty' : ', within what matters here') +
-        ' — a borehole, an uphole survey or a later-arriving branch assigned by hand settles it',
-      layer: lower,
-      details: {
-        intermediateVelocity: assessment.intermediateVelocity,
-        maxHiddenThickness: assessment.maxHiddenThickness,
-        depthIfPresent: assessment.depthIfPresent,
-        interpretedDepth: assessment.interpretedDepth,
-        depthErrorIfPresent: assessment.depthErrorIfPresent,
-      },
+      code: 'zero-offset-picks',
+      level: 'info',
+      message: `survey: ${zeroOffset.length} pick(s) at the source position (line ${lines}${zeroOffset.length > 5 ? ', …' : ''}) belong to neither side of the shot and are not fitted; they are kept, and their time is a check of time zero`,
+      details: { count: zeroOffset.length },
+    });
+  }
+  if (combined.slownesses.every((entry) => entry === null)) {
+    warnings.push({
+      code: 'nothing-interpreted',
+      level: 'warning',
+      message: 'survey: no shot side has a branch that could be fitted, so there is no layer to report; check that the picks are not all excluded and that each shot side has at least three picks with times that grow with offset',
     });
   }
   return warnings;
 }
 
-/** Longest source–receiver offset against the deepest interface claimed (common practice: 3–5 × depth). */
-function spreadWarnings({ pickSet, combined }: SurveyCheckInput): InterpretationWarning[] {
-  const deepest = combined.depths[combined.depths.length - 1];
-  if (deepest === undefined || !(deepest > 0)) return [];
-  const longest = Math.max(0, ...pickSet.picks.map((pick) => Math.abs(pick.receiverX - pick.sourceX)));
-  if (longest >= SPREAD_DEPTH_RATIO * deepest) return [];
-  return [
-    {
-      code: 'spread-too-short',
+/** Shot depths, uphole times and elevations are read but not yet used by the horizontal-layer methods. */
+function correctionWarnings({ pickSet }: SurveyCheckInput): InterpretationWarning[] {
+  const buried = new Set(pickSet.picks.filter((pick) => (pick.sourceDepth ?? 0) > 0 || (pick.uphole ?? 0) > 0).map((pick) => pick.shot));
+  const warnings: InterpretationWarning[] = [];
+  if (buried.size > 0) {
+    warnings.push({
+      code: 'corrections-not-applied',
       level: 'warning',
-      message: `survey: the longest offset is ${formatQuantity(longest, 'm')} but the deepest interface is claimed at ${formatQuantity(deepest, 'm')}; common practice wants offsets of 3 to 5 times the target depth, so deeper layers may be missed and this depth is weakly constrained — lengthen the spread or add off-end shots`,
-      layer: combined.depths.length + 1,
-      details: { longestOffset: longest, deepestDepth: deepest, ratio: longest / deepest },
-    },
-  ];
+      message: `survey: ${buried.size} shot(s) were buried (source depth or uphole time given: ${[...buried].slice(0, 5).join(', ')}), but the horizontal-layer methods here treat every shot as on the surface, so depths under those shots are measured from the shot, not the ground, and their direct waves need not pass through the origin; correct the times for the shot depth before relying on those depths`,
+      details: { buriedShots: buried.size },
+    });
+  }
+  const elevations = pickSet.picks.map((pick) => [pick.sourceElevation, pick.receiverElevation]).flat().filter((value): value is number => value !== null);
+  if (elevations.length > 0) {
+    const relief = Math.max(...elevations) - Math.min(...elevations);
+    if (relief > 0) {
+      warnings.push({
+        code: 'corrections-not-applied',
+        level: 'warning',
+        message: `survey: ground elevations vary by ${formatQuantity(relief, 'm', 3)}, but the horizontal-layer methods here assume a flat surface and apply no elevation correction, so depths are below each shot's ground level and carry an error of up to about that relief; reduce the times to a datum before relying on the depths`,
+        details: { relief },
+      });
+    }
+  }
+  return warnings;
+}
+
+/** Layers whose velocity is known but whose depth could not be resolved (the survey model stops above them). */
+function resolutionWarnings({ combined, model }: SurveyCheckInput): InterpretationWarning[] {
+  const warnings: InterpretationWarning[] = [];
+  const resolved = model?.velocities.length ?? 0;
+  const first = combined.slownesses.findIndex((entry) => entry !== null);
+  if (first > 0) {
+    warnings.push({
+      code: 'missing-layer-branch',
+      level: 'warning',
+      message: 'survey: no shot side shows a direct wave through the time origin, so the top-layer velocity is unknown and no depth can be computed; place receivers close to a shot, or check the trigger (every shot late by the same time-zero error looks like this)',
+      layer: 1,
+      branch: 1,
+    });
+  }
+  combined.slownesses.forEach((entry, k) => {
+    if (entry === null || k < resolved || first > 0) return;
+    const previous = combined.slownesses[k - 1];
+    const slower = previous !== null && previous !== undefined && !(entry.value < previous.value);
+    warnings.push({
+      code: slower ? 'velocity-inversion-suspected' : 'missing-layer-branch',
+      level: 'warning',
+      message: slower
+        ? `survey, layer ${k + 1}: its mean velocity (${formatQuantity(1 / entry.value, 'm/s')}) is not above that of layer ${k} (${formatQuantity(1 / previous!.value, 'm/s')}), so no plane-layer depth can be given for it or below; the shots disagree about the layering (dip or a lateral change) or a branch was split wrongly — read the shots' own branches and depths`
+        : `survey, layer ${k + 1}: its velocity is measured but its depth is not resolved (a branch number is missing above it on every shot side that shows it, or the layer above has no positive thickness); assign the missing branch or check the layering`,
+      layer: k + 1,
+    });
+  });
+  return warnings;
+}
+
+/** The survey's own layers in the water-table band (a side-level check may miss it on noisy sides). */
+function waterTableWarnings({ model }: SurveyCheckInput): InterpretationWarning[] {
+  if (!model) return [];
+  return model.velocities.flatMap((velocity, k) =>
+    k >= 1 && velocity >= WATER_TABLE_BAND[0] && velocity <= WATER_TABLE_BAND[1]
+      ? [
+          {
+            code: 'water-table-suspected' as const,
+            level: 'info' as const,
+            message: `survey, layer ${k + 1}: its mean velocity ${formatQuantity(velocity, 'm/s')} is that of water-saturated sediment, so its top is probably the water table rather than rock; confirm with a borehole or piezometer before reading it as bedrock`,
+            layer: k + 1,
+            details: { velocity },
+          },
+        ]
+      : [],
+  );
+}
+
+/** For each adjacent pair of survey layers, the largest hidden layer and what it would do (Soske 1959; METHODS §9). */
+function hiddenLayerSurveyWarnings({ model, combined }: SurveyCheckInput): InterpretationWarning[] {
+  if (!model || model.velocities.length < 2) return [];
+  const depthSE = model.thicknesses.map((_, k) => Math.sqrt(combined.depthCovariance[k]?.[k] ?? 0));
+  return hiddenLayerWarnings(null, model, [], depthSE);
+}
+
+/** Longest source–receiver offset against the deepest interface claimed (common practice: 3–5 × depth). */
+function spreadWarnings({ pickSet, model }: SurveyCheckInput): InterpretationWarning[] {
+  if (!model || model.thicknesses.length === 0) return [];
+  const deepest = model.thicknesses.reduce((sum, thickness) => sum + thickness, 0);
+  const longest = Math.max(0, ...pickSet.picks.filter((pick) => !pick.excluded).map((pick) => Math.abs(pick.receiverX - pick.sourceX)));
+  return spreadTooShortWarnings(null, longest, deepest).map((warning) => ({ ...warning, layer: model.velocities.length }));
 }
 
 function lateralVariationWarnings({ combined }: SurveyCheckInput): InterpretationWarning[] {

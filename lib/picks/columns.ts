@@ -62,7 +62,54 @@ export interface PickTableColumn {
   /** What the column means, in the trade's words. */
   readonly meaning: string;
   readonly range: ValueRange | null;
+  /** The largest magnitude a plausible value has, for a length or a time column; null otherwise. */
+  readonly limit: MagnitudeLimit | null;
 }
+
+/**
+ * The largest magnitude (absolute value) a cell may hold, in SI units: beyond it the value cannot
+ * be a measurement of its quantity, and is refused with `code` (a value exactly at the limit is
+ * accepted). It catches a wrong unit or a mistyped exponent before the value reaches the fits.
+ */
+export interface MagnitudeLimit {
+  /** Largest accepted magnitude, SI units (metres or seconds). */
+  readonly largest: number;
+  readonly code: PickTableProblemCode;
+  /** Why no real value is larger, in words that follow "a limit" in a message. */
+  readonly reason: string;
+}
+
+/**
+ * Latest plausible time, seconds: 1e5 s (27.8 hours, a little more than a day). No first arrival
+ * on Earth comes this late: the last core phases reach the antipode about 20 minutes after the
+ * source (KennettEngdahl1991; recalled from memory), and even a surface wave circles the Earth
+ * (40,075 km at 3–4 km/s) in about 3 hours. A round power of ten is used because the limit is
+ * there to catch unit and exponent slips (a time in microseconds written as ms, a clock time,
+ * 1e300), which miss it by orders of magnitude; it applies alike to times, pick uncertainties and
+ * uphole times.
+ */
+export const LATEST_TIME_SECONDS = 1e5;
+
+/**
+ * Largest plausible length, metres: 4.1e7 m (41,000 km), larger than the Earth's equatorial
+ * circumference of 2π × 6,378,137 m = 40,075,017 m (WGS84 semi-major axis, as METHODS.md gives
+ * it for geodesics). No position along a line on the Earth's surface, no elevation and no shot
+ * depth comes near it; it applies to every length column, in magnitude (negative positions and
+ * elevations below sea level are fine within it).
+ */
+export const LARGEST_LENGTH_METRES = 4.1e7;
+
+const TIME_LIMIT: MagnitudeLimit = {
+  largest: LATEST_TIME_SECONDS,
+  code: 'time-implausible',
+  reason: 'of more than a day: no refraction arrival comes later',
+};
+
+const LENGTH_LIMIT: MagnitudeLimit = {
+  largest: LARGEST_LENGTH_METRES,
+  code: 'length-implausible',
+  reason: "larger than the Earth's circumference (about 40,075 km)",
+};
 
 function unitSuffixes(kind: ColumnKind): readonly string[] {
   if (kind === 'length') return Object.keys(LENGTH_UNITS);
@@ -85,7 +132,8 @@ function column(
 ): PickTableColumn {
   const suffixes = unitSuffixes(kind);
   const names = suffixes.length === 0 ? [stem] : suffixes.map((suffix) => `${stem}_${suffix}`);
-  return { quantity, stem, kind, need, names, meaning, range };
+  const limit = kind === 'time' ? TIME_LIMIT : kind === 'length' ? LENGTH_LIMIT : null;
+  return { quantity, stem, kind, need, names, meaning, range, limit };
 }
 
 const LATITUDE: ValueRange = {
@@ -103,12 +151,12 @@ export const PICK_TABLE_COLUMNS: readonly PickTableColumn[] = [
   column('receiver', 'receiver', 'text', 'optional', 'receiver (geophone station) identifier'),
   column('sourceX', 'source_x', 'length', 'line', 'source position along the line'),
   column('receiverX', 'receiver_x', 'length', 'line', 'receiver position along the line'),
-  column('sourceLat', 'source_lat', 'degrees', 'geographic', 'source latitude, decimal degrees WGS84', LATITUDE),
-  column('sourceLon', 'source_lon', 'degrees', 'geographic', 'source longitude, decimal degrees WGS84', LONGITUDE),
-  column('receiverLat', 'receiver_lat', 'degrees', 'geographic', 'receiver latitude, decimal degrees WGS84', LATITUDE),
-  column('receiverLon', 'receiver_lon', 'degrees', 'geographic', 'receiver longitude, decimal degrees WGS84', LONGITUDE),
+  column('sourceLat', 'source_lat', 'degrees', 'geographic', 'source latitude in decimal degrees WGS84', LATITUDE),
+  column('sourceLon', 'source_lon', 'degrees', 'geographic', 'source longitude in decimal degrees WGS84', LONGITUDE),
+  column('receiverLat', 'receiver_lat', 'degrees', 'geographic', 'receiver latitude in decimal degrees WGS84', LATITUDE),
+  column('receiverLon', 'receiver_lon', 'degrees', 'geographic', 'receiver longitude in decimal degrees WGS84', LONGITUDE),
   column('time', 'time', 'time', 'required', 'first-arrival time after the shot instant', atLeast(0, true, 'time-negative')),
-  column('sigma', 'sigma', 'time', 'optional', 'pick uncertainty, one standard deviation', atLeast(0, false, 'sigma-not-positive')),
+  column('sigma', 'sigma', 'time', 'optional', 'pick uncertainty as one standard deviation', atLeast(0, false, 'sigma-not-positive')),
   column('branch', 'branch', 'branch', 'optional', 'user-assigned branch (1 = direct wave, 2 = first refractor, ...; empty = automatic; x = pick excluded)'),
   column('sourceElevation', 'source_elev', 'length', 'optional', 'ground elevation at the source'),
   column('receiverElevation', 'receiver_elev', 'length', 'optional', 'ground elevation at the receiver'),

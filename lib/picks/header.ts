@@ -87,7 +87,7 @@ export function readHeader(fields: readonly string[], line: number, problems: Pr
         'column-unknown',
         place,
         `column ${quoted(name)} is not a pick-table column and is ignored`,
-        `rename it to a pick-table column if it holds one (e.g. ${spellings('time')}), or delete it to silence this warning`,
+        `if it holds a pick-table quantity, rename it to that column's name (e.g. ${spellings('time')}); otherwise leave it (it is ignored) or delete it`,
       );
       return;
     }

@@ -13,16 +13,20 @@ export { PICK_TABLE_PROBLEM_CODES, type PickTableProblemCode } from './problem-c
 // --- the column table (for the README, the API docs and header checks)
 export {
   PICK_TABLE_COLUMNS,
+  LATEST_TIME_SECONDS,
+  LARGEST_LENGTH_METRES,
   identifyColumn,
   columnName,
   type ColumnIdentity,
   type ColumnKind,
   type ColumnNeed,
   type PickTableColumn,
+  type MagnitudeLimit,
   type PickTableQuantity,
   type ValueRange,
 } from './columns.js';
 
-// --- building blocks: CSV fields and strict decimals
+// --- building blocks: CSV fields, the separator sniffer and strict decimals
+export { sniffForeignSeparator, type ForeignSeparator } from './separator.js';
 export { splitCsvLine, quoteCsvField, type CsvLine, type CsvLineFault } from './csv-line.js';
 export { readDecimal, writeDecimal, decimalScale, UNIT_SCALE, type DecimalScale, type NumberFault, type NumberReading } from './numbers.js';

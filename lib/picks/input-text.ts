@@ -66,7 +66,7 @@ export function checkInputSize(input: string | Uint8Array, maxBytes: number, pro
   problems.error(
     'input-too-large',
     { line, column: null },
-    `the pick table is ${grouped(size)} bytes (${mebibytes(size)}), over the limit of ${grouped(maxBytes)} bytes (${mebibytes(maxBytes)}), which is reached on line ${line}; nothing was read`,
+    `the pick table is ${grouped(size)} bytes (${mebibytes(size)}), over the limit of ${grouped(maxBytes)} ${maxBytes === 1 ? 'byte' : 'bytes'} (${mebibytes(maxBytes)}), which is reached on line ${line}; nothing was read`,
     'split the survey into several tables by shot, or raise the limit (maxBytes)',
   );
 }

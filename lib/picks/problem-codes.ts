@@ -17,6 +17,7 @@ export const PICK_TABLE_PROBLEM_CODES = {
   'quote-unclosed': 'A quoted field is never closed.',
   'quote-stray': 'A double quote inside an unquoted field, or text after a closing quote.',
   // --- the header row
+  'separator-not-comma': 'The header is separated by semicolons or tabs, not commas (a spreadsheet saved the table with a locale list separator); nothing else is checked.',
   'header-name-empty': 'A header cell is empty, so its column has no name.',
   'column-unknown': 'A column the pick table does not define; it is ignored (warning).',
   'column-unit-unknown': 'A known quantity with a unit suffix the pick table does not accept (e.g. time_us).',
@@ -33,6 +34,8 @@ export const PICK_TABLE_PROBLEM_CODES = {
   'number-not-finite': 'A numeric cell spells NaN or infinity.',
   'number-too-large': 'A numeric cell is beyond the range of double-precision numbers in SI units.',
   'time-negative': 'A first-arrival time is negative.',
+  'time-implausible': 'A time, pick uncertainty or uphole time above 1e5 s (more than a day): no refraction arrival comes so late, so the unit or the exponent is wrong.',
+  'length-implausible': "A position, elevation or shot depth beyond ±4.1e7 m (larger than the Earth's circumference), so the unit or the exponent is wrong.",
   'sigma-not-positive': 'A pick uncertainty is zero or negative.',
   'source-depth-negative': 'A shot depth below ground is negative.',
   'uphole-negative': 'An uphole time is negative.',

@@ -1,6 +1,13 @@
 /**
- * The problem list a reader fills: problems in the order found, capped at `maxProblems`, with one
- * closing entry that counts what was found beyond the cap.
+ * The problem list a reader fills: problems sorted by line, then column (a whole-line problem,
+ * column null, after the cells of its line; ties keep the order found), capped at `maxProblems`,
+ * with one closing entry that counts what was left off.
+ *
+ * The cap keeps the `maxProblems` problems that sort first, whatever order they were found in
+ * (checks across rows run after every row was read, yet their problems sort among the rows'), so
+ * every problem left off lies on or after the closing entry's line. A problem that sorts after
+ * all listed ones costs one comparison once the list is full, so a million bad rows are counted
+ * in linear time.
  */
 import type { Problem, Severity } from '../problems.js';
 import type { PickTableProblemCode } from './problem-codes.js';
@@ -12,12 +19,26 @@ export interface ProblemPlace {
   readonly field?: string;
 }
 
+/** Negative when `first` sorts before `second`: by line, then column, whole-line problems last. */
+function comparePlaces(first: Problem, second: Problem): number {
+  if (first.line !== second.line) return first.line - second.line;
+  const firstColumn = first.column ?? Infinity;
+  const secondColumn = second.column ?? Infinity;
+  return firstColumn === secondColumn ? 0 : firstColumn < secondColumn ? -1 : 1;
+}
+
+/** "1 column", "4 columns": a count with its noun in the right number. */
+export function counted(count: number, singular: string, plural = `${singular}s`): string {
+  return `${count} ${count === 1 ? singular : plural}`;
+}
+
 export class ProblemList {
+  /** The listed problems, kept sorted (see comparePlaces). */
   private readonly listed: Problem[] = [];
   private readonly maxProblems: number;
   private unlisted = 0;
   private unlistedErrors = 0;
-  private firstUnlistedLine = 1;
+  private firstUnlistedLine = Infinity;
   private errorCount = 0;
 
   constructor(maxProblems: number) {
@@ -44,31 +65,49 @@ export class ProblemList {
 
   private add(severity: Severity, code: PickTableProblemCode, place: ProblemPlace, message: string, fix: string): void {
     if (severity === 'error') this.errorCount += 1;
-    if (this.listed.length < this.maxProblems) {
-      const problem: Problem = { code, severity, line: place.line, column: place.column, message, fix };
-      this.listed.push(place.field === undefined ? problem : { ...problem, field: place.field });
+    const bare: Problem = { code, severity, line: place.line, column: place.column, message, fix };
+    const problem = place.field === undefined ? bare : { ...bare, field: place.field };
+    const listed = this.listed;
+    const last = listed.at(-1);
+    if (last === undefined || comparePlaces(last, problem) <= 0) {
+      if (listed.length < this.maxProblems) listed.push(problem);
+      else this.leaveOff(problem);
       return;
     }
-    if (this.unlisted === 0) this.firstUnlistedLine = place.line;
+    // Found late but sorting earlier: insert after every listed problem that sorts before or with it.
+    let low = 0;
+    let high = listed.length;
+    while (low < high) {
+      const middle = (low + high) >>> 1;
+      if (comparePlaces(listed[middle] as Problem, problem) <= 0) low = middle + 1;
+      else high = middle;
+    }
+    listed.splice(low, 0, problem);
+    if (listed.length > this.maxProblems) this.leaveOff(listed.pop() as Problem);
+  }
+
+  private leaveOff(problem: Problem): void {
     this.unlisted += 1;
-    if (severity === 'error') this.unlistedErrors += 1;
+    if (problem.severity === 'error') this.unlistedErrors += 1;
+    this.firstUnlistedLine = Math.min(this.firstUnlistedLine, problem.line);
   }
 
   /** The listed problems, followed by the `problems-truncated` entry when some were left off. */
   problems(): Problem[] {
     if (this.unlisted === 0) return [...this.listed];
+    const errors = this.unlistedErrors;
     const kinds =
-      this.unlistedErrors === this.unlisted
-        ? 'errors'
-        : this.unlistedErrors === 0
-          ? 'warnings'
-          : `problems (${this.unlistedErrors} of them errors)`;
+      errors === this.unlisted
+        ? counted(this.unlisted, 'more error')
+        : errors === 0
+          ? counted(this.unlisted, 'more warning')
+          : `${this.unlisted} more problems (${errors === 1 ? 'one of them an error' : `${errors} of them errors`})`;
     const closing: Problem = {
       code: 'problems-truncated',
-      severity: this.unlistedErrors > 0 ? 'error' : 'warning',
+      severity: errors > 0 ? 'error' : 'warning',
       line: this.firstUnlistedLine,
       column: null,
-      message: `${this.unlisted} more ${kinds} were found from this line on and are not listed (the list stops at ${this.maxProblems})`,
+      message: `${kinds} ${this.unlisted === 1 ? 'was' : 'were'} found from this line on and ${this.unlisted === 1 ? 'is' : 'are'} not listed (the list stops at ${this.maxProblems})`,
       fix: 'correct the problems listed and read the table again, or raise maxProblems to see them all',
     };
     return [...this.listed, closing];

@@ -8,9 +8,10 @@ import { readHeader, type HeaderColumn, type HeaderLayout } from './header.js';
 import { checkInputSize, decodeInputText } from './input-text.js';
 import { LineScanner } from './lines.js';
 import { readDecimal, writeDecimal, type NumberFault } from './numbers.js';
-import type { PickTableQuantity } from './columns.js';
+import type { MagnitudeLimit, PickTableQuantity } from './columns.js';
 import type { PickTableProblemCode } from './problem-codes.js';
-import { ProblemList, quoted, type ProblemPlace } from './problem-list.js';
+import { counted, ProblemList, quoted, type ProblemPlace } from './problem-list.js';
+import { sniffForeignSeparator } from './separator.js';
 import type { CoordinateSystem, Pick, PickSet } from './types.js';
 
 export interface ReadPickTableOptions {
@@ -120,12 +121,38 @@ function readCell(text: string, cell: HeaderColumn, draft: PickDraft, problems: 
       return false;
     }
   }
+  if (column.limit !== null && Math.abs(value) > column.limit.largest) {
+    reportImplausible(text, cell, column.limit, line, problems);
+    return false;
+  }
   const quantity = column.quantity;
   if (quantity === 'shot' || quantity === 'receiver' || quantity === 'branch') {
     throw new Error(`readCell: column ${column.stem} has no numeric pick field`);
   }
   draft[quantity] = value;
   return true;
+}
+
+/**
+ * Report a value beyond its column's magnitude limit, giving the limit in the column's unit (and
+ * in SI when the unit is another): "at most 100000000 ms (1e5 s)".
+ */
+function reportImplausible(text: string, cell: HeaderColumn, limit: MagnitudeLimit, line: number, problems: ProblemList): void {
+  const { column, scale, unit } = cell;
+  const siUnit = column.kind === 'time' ? 's' : 'm';
+  // A power-of-ten unit shows the limit exactly; the foot shows it to four digits.
+  const exact = scale.coefficient === 1n;
+  const inUnit = exact ? writeDecimal(limit.largest, scale) : writeDecimal(Number((limit.largest / scale.size).toPrecision(4)));
+  const inSI = `${limit.largest.toExponential().replace('e+', 'e')} ${siUnit}`;
+  const shown = unit === null || unit === siUnit ? inSI : `${inUnit} ${unit} (${inSI})`;
+  const about = exact ? '' : 'about ';
+  const bound = column.kind === 'time' ? `must be at most ${about}${shown}` : `must lie within ${about}±${shown}`;
+  problems.error(
+    limit.code,
+    cellPlace(line, cell),
+    `${cell.name} ${quoted(text)}: the ${column.meaning} ${bound}, a limit ${limit.reason}`,
+    `check the value and the column's unit (${unit ?? siUnit}): a value this large is usually in another unit or has a mistyped exponent`,
+  );
 }
 
 /** A branch cell: a positive whole number (digits only), or x/X for an excluded pick. */
@@ -286,11 +313,11 @@ function checkAcrossRows(picks: readonly Pick[], shotRows: ReadonlyMap<string, S
   for (const [shot, { count: rowCount, lines }] of shotRows) {
     if (rowCount >= MIN_PICKS_PER_SHOT) continue;
     const first = lines[0] ?? header.line;
-    const count = lines.length === 1 ? 'one pick' : `${lines.length} picks`;
+    const count = lines.length === 1 ? 'one pick' : counted(lines.length, 'pick');
     problems.error(
       'shot-too-few-picks',
       { line: first, column: null },
-      `shot ${quoted(shot)} has only ${count} (line${lines.length === 1 ? '' : 's'} ${lines.join(', ')}): a shot needs at least ${MIN_PICKS_PER_SHOT}, across both sides`,
+      `shot ${quoted(shot)} has only ${count} (${lines.length === 1 ? 'line' : 'lines'} ${lines.join(', ')}): a shot needs at least ${MIN_PICKS_PER_SHOT}, across both sides`,
       'add the missing picks, or delete the shot\'s rows',
     );
   }
@@ -324,17 +351,26 @@ function positiveInteger(value: number | undefined, name: string, fallback: numb
  * Edges, each a problem with a stable code (see `PICK_TABLE_PROBLEM_CODES`):
  * - an input over `maxBytes` gets one `input-too-large` and is not decoded;
  * - invalid UTF-8 stops the reading after one `encoding-invalid` per line;
+ * - a header with no comma but pick-table names between semicolons or tabs (see
+ *   `sniffForeignSeparator`) gets one `separator-not-comma` on the header's line, and nothing
+ *   else is read;
  * - a header with errors still has its rows checked cell by cell, but no checks across rows run;
  * - a header with bad quoting ends the reading; a row with a wrong field count or bad quoting is
  *   not read further; one trailing empty field (a trailing comma) is tolerated on any row, the
  *   header included;
+ * - a time, uncertainty or uphole time above `LATEST_TIME_SECONDS` (1e5 s) is `time-implausible`,
+ *   a position, elevation or depth beyond ±`LARGEST_LENGTH_METRES` (4.1e7 m) `length-implausible`
+ *   (the limits themselves are accepted; a value below its column's lowest is reported as such
+ *   first);
  * - blank lines below the header are skipped, `#` lines there are errors;
  * - across rows (for rows without errors): a receiver picked twice for one shot (by receiver id
  *   when given, else by position), a shot with fewer than three rows in all, and a shot whose rows
  *   disagree on its source position, elevation, depth or uphole time (an empty cell counts as a
  *   value that differs from a filled one).
- * Problems come in the order found: input, header, rows, then checks across rows. Warnings
- * (unknown columns) let the table load. Misuse — an input that is neither a string nor a
+ * Problems come sorted by line, then column (a whole-line problem after the cells of its line;
+ * problems at one place in the order found), and the `maxProblems` cap keeps those that sort
+ * first. Warnings (unknown columns) let the table load; a refusal lists them among its errors,
+ * since an unknown column is often a misspelt required one (`tme_ms` beside "no time column"). Misuse — an input that is neither a string nor a
  * Uint8Array, or an option that is not a whole number ≥ 1 — throws a TypeError or RangeError.
  *
  * @example
@@ -357,6 +393,16 @@ export function readPickTable(input: string | Uint8Array, options: ReadPickTable
   const lines = new LineScanner(text);
   const headerText = findHeader(lines, problems);
   if (headerText === null) return refused();
+  const foreign = sniffForeignSeparator(headerText);
+  if (foreign !== null) {
+    problems.error(
+      'separator-not-comma',
+      { line: lines.lineNumber, column: null },
+      `the table is separated by ${foreign.name}; slopebreak reads comma-separated values`,
+      'save it as CSV with commas (decimal points, not commas)',
+    );
+    return refused();
+  }
   const headerFields = splitCsvLine(headerText);
   if (headerFields.fault !== null) {
     reportQuoteFault(headerFields.fault, lines.lineNumber, lines, problems);
@@ -390,7 +436,7 @@ function findHeader(lines: LineScanner, problems: ProblemList): string | null {
     problems.error(
       'table-empty',
       { line: 1, column: null },
-      'the pick table is empty',
+      'the pick table is empty: it holds no text, or only blank lines',
       `give ${example} and one row per pick`,
     );
   }
@@ -443,7 +489,7 @@ function readRows(lines: LineScanner, header: HeaderLayout, problems: ProblemLis
       problems.error(
         'row-field-count',
         { line, column: null },
-        `the row has ${fields.length} field${fields.length === 1 ? '' : 's'} but the header (line ${header.line}) has ${width} columns`,
+        `the row has ${counted(fields.length, 'field')} but the header (line ${header.line}) has ${counted(width, 'column')}`,
         'give every row one field per header column; quote a value that holds a comma',
       );
       continue;

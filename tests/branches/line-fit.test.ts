@@ -118,14 +118,20 @@ describe('fitLine dispatch and options', () => {
     expect(byDefault).toEqual(fitted(fitLeastSquares(REFRACTED_OFFSETS, REFRACTED_TIMES, null)));
   });
 
-  it('ignores (and does not check) sigmas given to a robust method', () => {
+  it('ignores (and does not check) sigmas given to Theil–Sen', () => {
     const badSigmas = REFRACTED_OFFSETS.map(() => Number.NaN);
-    for (const method of ['theil-sen', 'huber'] as const) {
-      const withSigmas = fitted(fitLine(REFRACTED_OFFSETS, REFRACTED_TIMES, badSigmas, { method }));
-      expect(withSigmas.weighted).toBe(false);
-      expect(withSigmas.chiSquare).toBeNull();
-      expect(withSigmas).toEqual(fitted(fitLine(REFRACTED_OFFSETS, REFRACTED_TIMES, null, { method })));
-    }
+    const withSigmas = fitted(fitLine(REFRACTED_OFFSETS, REFRACTED_TIMES, badSigmas, { method: 'theil-sen' }));
+    expect(withSigmas.weighted).toBe(false);
+    expect(withSigmas.chiSquare).toBeNull();
+    expect(withSigmas).toEqual(fitted(fitLine(REFRACTED_OFFSETS, REFRACTED_TIMES, null, { method: 'theil-sen' })));
+  });
+
+  it('passes sigmas to the Huber fit, which then reports a weighted fit with χ²', () => {
+    const sigmas = REFRACTED_OFFSETS.map(() => 0.3e-3);
+    const huber = fitted(fitLine(REFRACTED_OFFSETS, REFRACTED_TIMES, sigmas, { method: 'huber' }));
+    expect(huber.weighted).toBe(true);
+    expect(huber.chiSquare).not.toBeNull();
+    expect(fitLine(REFRACTED_OFFSETS, REFRACTED_TIMES, REFRACTED_OFFSETS.map(() => Number.NaN), { method: 'huber' }).ok).toBe(false);
   });
 
   it('throws for an unknown method and for arrays of different lengths', () => {

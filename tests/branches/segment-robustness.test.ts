@@ -73,7 +73,50 @@ describe('segmentSide: a decisive BIC overrides a soft constraint', () => {
     expect(chosen.failedConstraint).toBe('crossovers-in-gaps');
     expect(single.bic - chosen.bic).toBeGreaterThan(DECISIVE_BIC);
     expect(segmentation.notes.map((note) => note.code)).toEqual(['segmentation-constraint-failed']);
-    expect(segmentation.notes[0]!.message).toMatch(/soft constraint crossovers-in-gaps/);
+    expect(segmentation.notes[0]!.message).toBe(
+      'shot S1, forward side: the statistically best split (2 branches, breaking between 24\u00a0m and 26\u00a0m) fails only a soft ' +
+        'constraint — it has lines that cross outside the gap between their picks — but it is used because it fits so much better (BIC lower by more than 10) ' +
+        'than the best split that passes every constraint (1 branch); a mispick near a crossover is the usual cause — check the picks ' +
+        'near the breaks, or assign branches by hand',
+    );
+  });
+
+  it('when the split used fails a soft constraint but is not the BIC-best, says so (not that it passes), naming both splits', () => {
+    // The same mispicks, and beyond 70 m the times bend up to 1500 m/s: the 3-branch split is the
+    // BIC-best but its velocity falls (a hard constraint); the 2-branch split wins over 1 branch decisively.
+    const times = OFFSETS.map((offset) => {
+      const base = offset === 22 || offset === 24 ? offset / 500 : arrival(offset);
+      return offset > 70 ? base + (offset - 70) * (1 / 1500 - 1 / 2000) : base;
+    });
+    const segmentation = segmentSide(makeSide(OFFSETS, times));
+    const byBic = [...segmentation.candidates].sort((left, right) => left.bic - right.bic);
+    expect(byBic.map((candidate) => [candidate.branchCount, candidate.failedConstraint]).slice(0, 1)).toEqual([[3, 'slopes-decreasing']]);
+    expect(segmentation.candidates.find((candidate) => candidate.branchCount === 2)?.failedConstraint).toBe('crossovers-in-gaps');
+    expect(segmentation.branches).toHaveLength(2);
+    expect(segmentation.notes.map((note) => note.code)).toEqual(['segmentation-constraint-failed']);
+    expect(segmentation.notes[0]!.message).toBe(
+      'shot S1, forward side: the statistically best split (3 branches, breaking between 24\u00a0m and 26\u00a0m and between 68\u00a0m and 70\u00a0m) ' +
+        'has apparent velocity falling with offset; the split used (2 branches, breaking between 24\u00a0m and 26\u00a0m) fails only a soft ' +
+        'constraint — it has lines that cross outside the gap between their picks — and is used because it fits so much better (BIC lower by more than 10) than ' +
+        'the best split that passes every constraint (1 branch); a mispick near a crossover is the usual cause — check the picks near the ' +
+        'breaks, or assign branches by hand',
+    );
+    expect(segmentation.notes[0]!.message).not.toMatch(/split that passes every constraint \(2 branches/);
+  });
+
+  it('when no split passes but one fails only a soft constraint, uses it and says that no split passes every constraint', () => {
+    // Times step down at 20 m: one line through all has a falling slope (hard); two lines never
+    // meet near the gap (soft). Only K = 1 and 2 are tried.
+    const offsets = Array.from({ length: 20 }, (_, k) => 2 * (k + 1));
+    const times = offsets.map((offset, k) => (offset <= 20 ? 0.05 + offset / 2000 : 0.02 + offset / 3000) + 0.05e-3 * Math.sin(1.9 * k));
+    const segmentation = segmentSide(makeSide(offsets, times), { maxBranches: 2 });
+    expect(segmentation.candidates.map((candidate) => candidate.failedConstraint)).toEqual(['slopes-positive', 'crossovers-in-gaps']);
+    expect(segmentation.branches).toHaveLength(2);
+    expect(segmentation.notes[0]!.message).toBe(
+      'shot S1, forward side: the statistically best split (2 branches, breaking between 20\u00a0m and 22\u00a0m) fails only a soft ' +
+        'constraint — it has lines that cross outside the gap between their picks — but it is used because no split passes every constraint; a mispick near ' +
+        'a crossover is the usual cause — check the picks near the breaks, or assign branches by hand',
+    );
   });
 });
 
@@ -94,8 +137,9 @@ describe('segmentSide with firstBranchIndex: an off-end side that starts on the 
     expect(startsWithDirectWave(direct, 1e-4)).toBe(true);
     expect(startsWithDirectWave(offEnd, 1e-4)).toBe(false);
     expect(firstBranchIndices([direct, offEnd], 1e-4)).toEqual([1, 2]);
-    // With no side through the origin there is no reference, and nothing is renumbered.
-    expect(firstBranchIndices([offEnd], 1e-4)).toEqual([1]);
+    // With no side through the origin there is no reference: the side starts on a head wave (2),
+    // so nothing is forced through the origin and the top-layer velocity stays unknown.
+    expect(firstBranchIndices([offEnd], 1e-4)).toEqual([2]);
   });
 
   it('refuses a first branch index below 1', () => {

@@ -3,11 +3,12 @@
  * physical constraints, options and edges. User-assigned sides are in user-branches.test.ts.
  */
 import { describe, expect, it } from 'vitest';
-import { failedPhysicalConstraint, type SegmentLine } from '../../lib/branches/branch-constraints.js';
-import { fitBranchMembers } from '../../lib/branches/branch-fit.js';
+import { describePhysicalConstraint, failedPhysicalConstraint, type SegmentLine } from '../../lib/branches/branch-constraints.js';
+import { fitBranchMembers, sideName } from '../../lib/branches/branch-fit.js';
+import { describeShotSide } from '../../lib/checks/wording.js';
 import { optimalPartitions } from '../../lib/branches/optimal-partition.js';
 import { segmentCostTable } from '../../lib/branches/segment-cost.js';
-import { segmentSide } from '../../lib/branches/segment.js';
+import { segmentationBic, segmentSide } from '../../lib/branches/segment.js';
 import type { FitOutcome, LineFit } from '../../lib/branches/types.js';
 import { seededNormal, seededRandom } from '../../lib/random.js';
 import { expectRelative, expectWithin } from '../helpers/expect-within.js';
@@ -61,6 +62,17 @@ describe('segmentSide on METHODS check case 4.1', () => {
       expectWithin(candidate.bic, (expected[index] as number) + 2 * index * Math.log(48), 0.0006, `${CASE_4_1}, plus 2(K−1)·ln n`),
     );
     expect(heavier.branches.map((branch) => branch.index)).toEqual([1, 2, 3]);
+  });
+
+  it('segmentationBic defaults to 3 parameters per breakpoint, as segmentSide does; 1 gives the METHODS 4.1 values', () => {
+    const expected = [-521.009, -622.491, -754.15, -745.451, -736.178];
+    const table = segmentCostTable(offsets, times, null, 3);
+    optimalPartitions(table, 5, false).forEach((partition, index) => {
+      const byDefault = segmentationBic(partition, 48, false, false, 1e-4);
+      expectWithin(segmentationBic(partition, 48, false, false, 1e-4, 1), expected[index] as number, 0.0006, CASE_4_1);
+      expectWithin(byDefault, (expected[index] as number) + 2 * index * Math.log(48), 0.0006, `${CASE_4_1}, plus 2(K−1)·ln n`);
+      expect(byDefault).toBe(segmentSide(side).candidates[index]?.bic);
+    });
   });
 
   it('segments 2.5–10.0, 12.5–35.0, 37.5–120.0 m (the 35 m pick joins branch 2)', () => {
@@ -208,6 +220,19 @@ describe('failedPhysicalConstraint', () => {
   const change = (index: number, fields: Partial<SegmentLine>): SegmentLine[] =>
     good.map((line, position) => (position === index ? { ...line, ...fields } : line));
 
+  it('describePhysicalConstraint names each constraint in plain words and throws for an unknown code', () => {
+    expect(
+      ['slopes-positive', 'slopes-decreasing', 'intercepts-increasing', 'crossovers-in-gaps', 'slopes-distinct'].map(describePhysicalConstraint),
+    ).toEqual([
+      'a branch whose times do not increase with offset',
+      'apparent velocity falling with offset',
+      'intercept times out of order',
+      'lines that cross outside the gap between their picks',
+      'neighbouring branches whose velocities cannot be told apart',
+    ]);
+    expect(() => describePhysicalConstraint('toString')).toThrow(/unknown constraint toString/);
+  });
+
   it('passes METHODS check case 1.1 branches (crossovers 10.33 and 34.25 m inside the gaps)', () => {
     expect(failedPhysicalConstraint(good, 0)).toBeNull();
     expect(failedPhysicalConstraint([], 0)).toBeNull();
@@ -251,7 +276,13 @@ describe('segmentSide constraints in BIC order', () => {
     const accepted = byBic.find((candidate) => candidate.failedConstraint === null);
     expect(segmentation.branches).toHaveLength(accepted?.branchCount ?? -1);
     expect(segmentation.notes.map((note) => note.code)).toEqual(['segmentation-constraint-failed']);
-    expect(segmentation.notes[0]?.message).toMatch(/shot S1, forward side: the statistically best split \(2 branches\) fails the constraint slopes-decreasing, so the best split that passes \(1 branch\) is used/);
+    // The kink of the stated times is at 50 m and the 50 m pick lies on both lines; the split puts it
+    // on the later one, so it breaks between 45 and 50 m.
+    expect(byBic[0]?.starts).toEqual([9]);
+    expect(segmentation.notes[0]?.message).toBe(
+      'shot S1, forward side: the statistically best split (2 branches, breaking between 45\u00a0m and 50\u00a0m) has apparent velocity ' +
+        'falling with offset, so the best split that passes every constraint (1 branch) is used; check the picks near the breaks, or assign branches by hand',
+    );
   });
 
   it('when no candidate passes, uses the BIC-best and says so', () => {
@@ -260,7 +291,9 @@ describe('segmentSide constraints in BIC order', () => {
     expect(segmentation.candidates.every((candidate) => candidate.failedConstraint === 'slopes-positive')).toBe(true);
     const best = [...segmentation.candidates].sort((left, right) => left.bic - right.bic)[0];
     expect(segmentation.branches).toHaveLength(best?.branchCount ?? -1);
-    expect(segmentation.notes[0]?.message).toMatch(/no split passes the physical constraints/);
+    expect(segmentation.notes[0]?.message).toMatch(
+      /^shot S1, forward side: no split passes the physical constraints; the statistically best \(\d branch(es)?[^)]*\) has a branch whose times do not increase with offset and is used as it is/,
+    );
   });
 
   it('the crossover tolerance is one median pick spacing: 4.1 passes with it, fails without room', () => {
@@ -339,6 +372,12 @@ describe('segmentSide options and edges', () => {
     expect(twoPick).toBeGreaterThan(0);
     expect(refusals).toHaveLength(twoPick);
     expect(segmentation.branches).toHaveLength((chosen?.branchCount ?? 0) - twoPick);
+  });
+
+  it('sideName words a side exactly as describeShotSide does ("shot S7, reverse side")', () => {
+    const side = { ...makeSide(offsets, times, { side: 'reverse' }), shot: 'S7' };
+    expect(sideName(side)).toBe('shot S7, reverse side');
+    expect(sideName(side)).toBe(describeShotSide({ shot: 'S7', side: 'reverse' }));
   });
 
   it('fitBranchMembers throws for members that are not ascending positions on the side', () => {

@@ -124,14 +124,29 @@ describe('directOriginWarnings', () => {
   const direct = Array.from({ length: 8 }, (_, k) => 2 + 2 * k);
   it('warns when the free direct-wave line misses time zero by more than 3 SE (a 3 ms trigger delay)', () => {
     const late = line(500, 3e-3, direct, 1e-4, 9);
-    const warnings = directOriginWarnings(context(direct, late, { index: 1 }));
+    const warnings = directOriginWarnings(context(direct, late, { index: 1 }), RESOLUTION);
     expect(warnings.map((warning) => warning.code)).toEqual(['direct-not-through-origin']);
     expect(warnings[0]!.message).toMatch(/meets zero offset at [23]\.\d\d ms/);
   });
+  it('warns on exact picks that miss the origin by more than the time resolution (SE 0), and not within it', () => {
+    const constant = direct.map(() => 5e-3);
+    expect(directOriginWarnings(context(direct, constant, { index: 1 }), RESOLUTION).map((warning) => warning.code)).toEqual(['direct-not-through-origin']);
+    const rounded = line(500, 0.5e-4, direct);
+    expect(directOriginWarnings(context(direct, rounded, { index: 1 }), RESOLUTION)).toEqual([]);
+  });
+  it('uses the Student-t quantile: a 4-pick branch 5.8 SE off zero passes (scipy t.ppf(0.99865, 2) = 19.2), 11.5 SE too, but not with 12 picks', () => {
+    // Intercepts and SEs by scipy.stats.linregress on these picks: 2 ms at 5.77 and 11.5 SE.
+    const four = [2, 4, 6, 8];
+    expect(directOriginWarnings(context(four, [5.2e-3, 7.8e-3, 10.8e-3, 14.2e-3], { index: 1 }), RESOLUTION)).toEqual([]);
+    expect(directOriginWarnings(context(four, [5.1e-3, 7.9e-3, 10.9e-3, 14.1e-3], { index: 1 }), RESOLUTION)).toEqual([]);
+    const twelve = Array.from({ length: 12 }, (_, k) => 2 + 2 * k);
+    const wobble = twelve.map((offset, k) => (2 + 1.5 * offset + (k % 2 === 0 ? 0.2 : -0.2)) * 1e-3);
+    expect(directOriginWarnings(context(twelve, wobble, { index: 1 }), RESOLUTION).map((warning) => warning.code)).toEqual(['direct-not-through-origin']);
+  });
   it('says nothing for a clean direct wave, a buried shot, or a head-wave branch', () => {
-    expect(directOriginWarnings(context(direct, line(500, 0, direct, 1e-4, 9), { index: 1 }))).toEqual([]);
-    expect(directOriginWarnings(context(direct, line(500, 3e-3, direct, 1e-4, 9), { index: 1, surfaceShot: false }))).toEqual([]);
-    expect(directOriginWarnings(context(direct, line(500, 3e-3, direct, 1e-4, 9), { index: 2 }))).toEqual([]);
+    expect(directOriginWarnings(context(direct, line(500, 0, direct, 1e-4, 9), { index: 1 }), RESOLUTION)).toEqual([]);
+    expect(directOriginWarnings(context(direct, line(500, 3e-3, direct, 1e-4, 9), { index: 1, surfaceShot: false }), RESOLUTION)).toEqual([]);
+    expect(directOriginWarnings(context(direct, line(500, 3e-3, direct, 1e-4, 9), { index: 2 }), RESOLUTION)).toEqual([]);
   });
 });
 

@@ -215,10 +215,10 @@ describe('hidden layer on iasp91 (Kennett & Engdahl 1991): the 6.5 km/s lower cr
     const [warning, ...others] = hiddenLayerWarnings(FORWARD, interpreted, [6500]);
     expect(others).toEqual([]);
     expect(warning).toMatchObject({ code: 'hidden-layer-possible', level: 'caution', shot: 'S1', side: 'forward', layer: 2 });
-    expect(Object.keys(warning?.details ?? {}).sort()).toEqual(['depthErrorIfPresent', 'intermediateVelocity', 'maxHiddenThickness']);
+    expect(Object.keys(warning?.details ?? {}).sort()).toEqual(['depthErrorIfPresent', 'depthIfPresent', 'intermediateVelocity', 'interpretedDepth', 'maxHiddenThickness']);
     expect(warning?.details?.maxHiddenThickness).toBe(assessment.maxHiddenThickness);
     expect(warning?.details?.depthErrorIfPresent).toBe(assessment.depthErrorIfPresent);
-    expect(warning?.message).toMatch(/^shot S1, forward side: a layer of about 6500 m\/s between layer 1 .* and layer 2 .* too shallow/);
+    expect(warning?.message).toMatch(/^shot S1, forward side: a layer of about 6500\u00a0m\/s between layer 1 .* and layer 2 .* too shallow/);
   });
 });
 

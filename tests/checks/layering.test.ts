@@ -4,11 +4,10 @@ import {
   depthNoteWarnings,
   headWavePrecriticalWarnings,
   spreadTooShortWarnings,
-  velocityInversionCaution,
   velocityInversionWarnings,
 } from '../../lib/checks/layering.js';
 import { WARNING_CODES } from '../../lib/checks/warning.js';
-import { depthsDisagree } from '../../lib/depth/crossover-distance.js';
+import { depthOutsideBracket } from '../../lib/depth/crossover-distance.js';
 import { interceptTimeDepths } from '../../lib/depth/intercept-time.js';
 import type { DepthNote } from '../../lib/depth/types.js';
 import { layerDepthsOf } from '../depth/depth-test-data.js';
@@ -54,7 +53,7 @@ describe('headWavePrecriticalWarnings', () => {
     expect(rest).toEqual([]);
     expect(warning).toMatchObject({ code: 'head-wave-precritical', level: 'warning', branch: 3 });
     expect(warning?.details?.criticalDistance).toBeCloseTo(critical3, 9);
-    expect(warning?.message).toMatch(/^shot S3, forward side, branch 3: its first pick at 10 m is nearer the shot than the critical distance 11\.2 m/);
+    expect(warning?.message).toMatch(/^shot S3, forward side, branch 3: its first pick at 10\u00a0m is nearer the shot than the critical distance 11\.2\u00a0m/);
   });
 
   it('headWavePrecriticalWarnings passes a pick exactly at x*_n, skips the direct wave and impossible branches', () => {
@@ -71,7 +70,7 @@ describe('spreadTooShortWarnings', () => {
   it('spreadTooShortWarnings flags a farthest offset under 3 × the deepest depth (common practice 3–5 ×)', () => {
     const [warning] = spreadTooShortWarnings(PLACE, 40, 15);
     expect(warning).toMatchObject({ code: 'spread-too-short', level: 'caution', details: { farthestOffset: 40, deepestDepth: 15, neededOffset: 45 } });
-    expect(warning?.message).toMatch(/lengthen the spread to at least 45 m /);
+    expect(warning?.message).toMatch(/lengthen the spread to at least 45\u00a0m /);
   });
 
   it('spreadTooShortWarnings passes exactly 3 × the depth and gives nothing when no depth is claimed', () => {
@@ -84,11 +83,11 @@ describe('spreadTooShortWarnings', () => {
 
 describe('depthMethodsDisagreeWarnings', () => {
 
-  it('depthMethodsDisagreeWarnings turns each flagged interface of depthsDisagree into a warning naming the layer below it', () => {
-    const comparisons = depthsDisagree(layerDepthsOf([4, 14], [0.1, 0.3]), layerDepthsOf([4.1, 16], [0.1, 0.4]));
+  it('depthMethodsDisagreeWarnings turns each interface outside its bracket into a warning naming both methods and the layer below it', () => {
+    const comparisons = depthOutsideBracket(layerDepthsOf([4, 14], [0.1, 0.3]), layerDepthsOf([3.9, 15], [0, 0]), layerDepthsOf([4.3, 16], [0, 0]));
     const warnings = depthMethodsDisagreeWarnings(PLACE, comparisons);
     expect(warnings.map((warning) => [warning.code, warning.layer])).toEqual([['depth-methods-disagree', 3]]);
-    expect(warnings[0]?.message).toMatch(/^shot S3, forward side, layer 3: the depth to its top is 14 m by one method and 16 m by the other/);
+    expect(warnings[0]?.message).toMatch(/^shot S3, forward side, top of layer 3: the intercept-time method puts it at 14\u00a0m ± 0\.3\u00a0m, outside the 15\u00a0m to 16\u00a0m that the crossover-distance method allows/);
     expect(depthMethodsDisagreeWarnings(PLACE, [])).toEqual([]);
   });
 });
@@ -115,13 +114,5 @@ describe('depthNoteWarnings', () => {
       { code: 'depth-ill-conditioned', level: 'caution', message: 'shot S3, forward side, layer 2: test note', shot: 'S3', side: 'forward', layer: 2, details: { notes: 1 } },
     ]);
     expect(depthNoteWarnings(PLACE, [])).toEqual([]);
-  });
-});
-
-describe('velocityInversionCaution', () => {
-  it('velocityInversionCaution says an inversion cannot be detected from first arrivals and depths below come out too large', () => {
-    const caution = velocityInversionCaution();
-    expect(caution).toMatch(/cannot be detected from first arrivals/);
-    expect(caution).toMatch(/every depth below it comes out too large/);
   });
 });

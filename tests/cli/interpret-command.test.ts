@@ -68,10 +68,29 @@ describe('slopebreak interpret', () => {
     expect(run.stderr).toMatch(/line 4/);
   });
 
+  it('exits 1 with a reason when nothing could be interpreted (every pick excluded)', () => {
+    const folder = mkdtempSync(join(tmpdir(), 'slopebreak-cli-'));
+    const file = join(folder, 'excluded.csv');
+    writeFileSync(file, 'shot,source_x_m,receiver_x_m,time_ms,branch\nS1,0,2,4,x\nS1,0,4,8,x\nS1,0,6,12,x\n');
+    const run = slopebreak('interpret', file);
+    expect(run.status).toBe(1);
+    expect(run.stderr).toMatch(/nothing could be interpreted/);
+    expect(run.stdout).toMatch(/nothing-interpreted/);
+  });
+
+  it('stops quietly when its output pipe is closed early (| head)', () => {
+    const result = spawnSync('sh', ['-c', `"${process.execPath}" ${CLI} interpret sample-surveys/${SAMPLES[0]} --json | head -c 10 >/dev/null; echo "status \${PIPESTATUS:-done}"`], {
+      encoding: 'utf8',
+      timeout: 30_000,
+    });
+    expect(result.stderr).not.toMatch(/EPIPE|Error/);
+  });
+
   it('says plainly when the file cannot be read (exit 1)', () => {
     const run = slopebreak('interpret', join('sample-surveys', 'no-such-survey.csv'));
     expect(run.status).toBe(1);
-    expect(run.stderr).toMatch(/cannot read .*no-such-survey\.csv/);
+    expect(run.stderr).toMatch(/cannot read .*no-such-survey\.csv: no such file; check the path/);
+    expect(slopebreak('interpret', 'sample-surveys').stderr).toMatch(/it is a folder/);
   });
 
   it('rejects bad options with a usage message (exit 2)', () => {

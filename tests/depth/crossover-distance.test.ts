@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import {
   crossoverDistanceDepths,
-  depthsDisagree,
+  depthOutsideBracket,
   fittedCrossovers,
   observedCrossover,
   type CrossoverReading,
@@ -205,43 +205,39 @@ describe('crossover-distance helpers: edges stated in the doc comments', () => {
   });
 });
 
-describe('depthsDisagree', () => {
-
-  it('depthsDisagree flags an interface whose depths differ by more than k·√(SE_A² + SE_B²)', () => {
-    // combined SE = 5 m (3-4-5); differences 9.9 m (< 2·5) and 10.1 m (> 2·5).
-    const comparisons = depthsDisagree(layerDepthsOf([100, 200.1], [3, 3]), layerDepthsOf([90.1, 190], [4, 4]));
+describe('depthOutsideBracket', () => {
+  it('depthOutsideBracket flags an interface whose intercept-time depth ± SE misses the bracket', () => {
+    // z = 10 ± 0.5 against [10.4, 11] (meets it) and z = 20 ± 0.5 against [20.6, 22] (misses it).
+    const comparisons = depthOutsideBracket(layerDepthsOf([10, 20], [0.5, 0.5]), layerDepthsOf([10.4, 20.6], [0, 0]), layerDepthsOf([11, 22], [0, 0]));
     expect(comparisons.map((comparison) => comparison.disagree)).toEqual([false, true]);
-    expect(comparisons[1]).toMatchObject({ interface: 2, depthA: 200.1, depthB: 190 });
-    expectWithin(comparisons[1]?.combinedSE ?? Number.NaN, 5, 1e-12, '√(3² + 4²)');
-    expectWithin(comparisons[1]?.difference ?? Number.NaN, 10.1, 1e-12, 'depthA − depthB');
+    expect(comparisons[1]).toMatchObject({ interface: 2, interceptTimeDepth: 20, interceptTimeSE: 0.5, bracketLow: 20.6, bracketHigh: 22 });
   });
 
-  it('depthsDisagree uses the k it is given', () => {
-    expect(depthsDisagree(layerDepthsOf([100], [3]), layerDepthsOf([90.1], [4]), 1).map((comparison) => comparison.disagree)).toEqual([true]);
+  it('depthOutsideBracket reorders a bracket given high-to-low and flags a depth above it', () => {
+    const [above] = depthOutsideBracket(layerDepthsOf([12.6], [0.5]), layerDepthsOf([12], [0]), layerDepthsOf([11], [0]));
+    expect(above).toMatchObject({ bracketLow: 11, bracketHigh: 12, disagree: true });
   });
 
-  it('depthsDisagree compares up to the shorter list and flags any difference when both SEs are 0', () => {
-    const comparisons = depthsDisagree(layerDepthsOf([4, 14], [0, 0]), layerDepthsOf([4.001], [0]));
+  it('depthOutsideBracket compares up to the shortest list, and with SE 0 flags any depth outside', () => {
+    const comparisons = depthOutsideBracket(layerDepthsOf([4, 14], [0, 0]), layerDepthsOf([4.001], [0]), layerDepthsOf([5, 15], [0, 0]));
     expect(comparisons).toHaveLength(1);
     expect(comparisons[0]?.disagree).toBe(true);
-    expect(depthsDisagree(layerDepthsOf([4], [0]), layerDepthsOf([4], [0]))[0]?.disagree).toBe(false);
+    expect(depthOutsideBracket(layerDepthsOf([4.5], [0]), layerDepthsOf([4], [0]), layerDepthsOf([5], [0]))[0]?.disagree).toBe(false);
   });
 
-  it('depthsDisagree throws for k not positive', () => {
-    expect(() => depthsDisagree(layerDepthsOf([1], [1]), layerDepthsOf([1], [1]), 0)).toThrow(/k must be positive/);
-  });
-
-  it('on case 2.1 the intercept-time depths fall within the depths from the observed crossover brackets', () => {
+  it('on case 2.1 the intercept-time depths fall within the depths from the ends of the observed crossover brackets', () => {
     const { picks, fits } = case21();
-    const brackets = [0, 1].map((index) =>
-      observedCrossover(picks[index]?.offsets.at(-1) ?? Number.NaN, picks[index + 1]?.offsets[0] ?? Number.NaN),
-    );
-    expect(brackets.map((bracket) => bracket.distance)).toEqual([12.5, 32.5]);
-    const observed = crossoverDistanceDepths(
-      fits.map((fit) => ({ slowness: fit.slowness, variance: fit.slownessVariance })),
-      brackets,
-    );
-    const comparisons = depthsDisagree(interceptTimeDepths(fits), observed);
+    const ends = [0, 1].map((index) => [picks[index]?.offsets.at(-1) ?? Number.NaN, picks[index + 1]?.offsets[0] ?? Number.NaN] as const);
+    expect(ends.map(([low, high]) => observedCrossover(low, high).distance)).toEqual([12.5, 32.5]);
+    const slownesses = fits.map((fit) => ({ slowness: fit.slowness, variance: fit.slownessVariance }));
+    const low = crossoverDistanceDepths(slownesses, ends.map(([first]) => ({ distance: first, variance: 0 })));
+    const high = crossoverDistanceDepths(slownesses, ends.map(([, last]) => ({ distance: last, variance: 0 })));
+    const comparisons = depthOutsideBracket(interceptTimeDepths(fits), low, high);
     expect(comparisons.map((comparison) => comparison.disagree)).toEqual([false, false]);
+    // The exact depths 4 and 14 m lie inside the brackets, strictly.
+    comparisons.forEach((comparison) => {
+      expect(comparison.bracketLow).toBeLessThan(comparison.interceptTimeDepth);
+      expect(comparison.bracketHigh).toBeGreaterThan(comparison.interceptTimeDepth);
+    });
   });
 });

@@ -4,20 +4,21 @@
 import { expect } from 'vitest';
 
 /** |actual − expected| ≤ tolerance (absolute). */
-export function expectWithin(actual: number, expected: number, tolerance: number, source: string): void {
-  const error = Math.abs(actual - expected);
+export function expectWithin(actual: number | null | undefined, expected: number, tolerance: number, source: string): void {
+  const error = Math.abs((actual ?? Number.NaN) - expected);
   expect(
-    Number.isFinite(actual) && error <= tolerance,
+    typeof actual === 'number' && Number.isFinite(actual) && error <= tolerance,
     `${source}: got ${actual}, expected ${expected} ± ${tolerance} (off by ${error})`,
   ).toBe(true);
 }
 
 /** |actual − expected| ≤ relativeTolerance·|expected|. */
-export function expectRelative(actual: number, expected: number, relativeTolerance: number, source: string): void {
+export function expectRelative(actual: number | null | undefined, expected: number, relativeTolerance: number, source: string): void {
+  const value = actual ?? Number.NaN;
   // An expected value of exactly zero can only be matched absolutely.
-  const error = expected === 0 ? Math.abs(actual) : Math.abs(actual - expected) / Math.abs(expected);
+  const error = expected === 0 ? Math.abs(value) : Math.abs(value - expected) / Math.abs(expected);
   expect(
-    Number.isFinite(actual) && error <= relativeTolerance,
+    typeof actual === 'number' && Number.isFinite(actual) && error <= relativeTolerance,
     `${source}: got ${actual}, expected ${expected} within ${relativeTolerance * 100}% (off by ${(error * 100).toPrecision(3)}%)`,
   ).toBe(true);
 }

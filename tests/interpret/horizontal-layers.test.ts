@@ -27,21 +27,19 @@ function run(survey: SyntheticSurvey, options: InterpretOptions = {}): Interpret
   return result;
 }
 
-/** Fraction of picks on automatic branches that sit on their true branch (header is line 1). */
+/** Fraction of ALL data rows (header is line 1) that sit on a branch of their true number: a pick left off every branch counts as wrong. */
 function segmentationScore(result: Interpretation, survey: SyntheticSurvey): number {
   let right = 0;
-  let total = 0;
   for (const shot of result.shots) {
     for (const side of shot.sides) {
       for (const branch of side.branches) {
         for (const pick of branch.picks) {
-          total += 1;
           if (survey.trueBranches[pick.line - 2] === branch.index) right += 1;
         }
       }
     }
   }
-  return total === 0 ? 0 : right / total;
+  return right / survey.trueBranches.length;
 }
 
 function checkRecovery(result: Interpretation, spec: SyntheticSpec, label: string): void {

@@ -1,19 +1,30 @@
 /**
- * Property tests for readPickTable and writePickTable (fast-check, fixed seeds; 11,000 runs).
+ * Property tests for readPickTable and writePickTable (fast-check, fixed seeds; 12,000 runs).
  *
  * Valid tables are generated from a survey description (shots, receivers, values as decimal text
  * in random units), rendered with random but legal formatting, and must load with the values the
  * description gives (converted by the SI prefixes and 1 ft = 0.3048 m, NIST SP 811) and
  * round-trip through writePickTable. Mutated tables, random text and random bytes must never
  * make the reader throw: the outcome is either a clean pick set or a refusal with well-formed
- * problems. For random bytes, the platform's own UTF-8 decoder (`TextDecoder`, fatal mode) is
+ * problems, sorted by line and then column, and what loads stays within the magnitude limits
+ * (mutations that insert `e9` or zeros can carry values past them). A value placed on either side
+ * of its column's magnitude limit is refused exactly when its size in SI, computed here as
+ * mantissa × 10^exponent × unit size, is beyond the limit. For random bytes, the platform's own UTF-8 decoder (`TextDecoder`, fatal mode) is
  * the outside oracle for which inputs must be refused as `encoding-invalid`.
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { LENGTH_UNITS, TIME_UNITS, type LengthUnit, type TimeUnit } from '../../lib/units.js';
 import type { Outcome } from '../../lib/problems.js';
-import { PICK_TABLE_PROBLEM_CODES, readPickTable, writePickTable, type Pick, type PickSet } from '../../lib/picks/index.js';
+import {
+  LARGEST_LENGTH_METRES,
+  LATEST_TIME_SECONDS,
+  PICK_TABLE_PROBLEM_CODES,
+  readPickTable,
+  writePickTable,
+  type Pick,
+  type PickSet,
+} from '../../lib/picks/index.js';
 
 const SEED = 7_251_033;
 /** Small caps keep every run fast; the property is about shape, not volume. */
@@ -284,10 +295,18 @@ function expectSurvey(set: PickSet, survey: SurveyDescription, format: Formattin
   });
 }
 
-/** What must hold for any input: a clean pick set, or a refusal with well-formed problems. */
+/** What must hold for any input: a clean pick set, or a refusal with well-formed, sorted problems. */
 function expectWellFormed(outcome: Outcome<PickSet>): void {
   const codes = new Set(Object.keys(PICK_TABLE_PROBLEM_CODES));
   const problems = outcome.ok ? outcome.warnings : outcome.problems;
+  problems.forEach((problem, index) => {
+    const previous = problems[index - 1];
+    const sorted =
+      previous === undefined ||
+      previous.line < problem.line ||
+      (previous.line === problem.line && (problem.column === null || (previous.column !== null && previous.column <= problem.column)));
+    check(sorted, `problems out of order: ${previous?.line}:${previous?.column} before ${problem.line}:${problem.column}`);
+  });
   for (const problem of problems) {
     check(Number.isInteger(problem.line) && problem.line >= 1, `line ${problem.line}`);
     check(problem.column === null || (Number.isInteger(problem.column) && problem.column >= 1), `column ${problem.column}`);
@@ -308,6 +327,10 @@ function expectWellFormed(outcome: Outcome<PickSet>): void {
       check(value === null || Number.isFinite(value), `value ${value} on line ${pick.line}`);
     }
     check(pick.sigma === null || pick.sigma > 0, `sigma ${pick.sigma}`);
+    for (const time of [pick.time, pick.sigma, pick.uphole]) check(time === null || time <= LATEST_TIME_SECONDS, `time ${time} on line ${pick.line}`);
+    for (const length of [pick.sourceX, pick.receiverX, pick.sourceElevation, pick.receiverElevation, pick.sourceDepth]) {
+      check(length === null || Math.abs(length) <= LARGEST_LENGTH_METRES, `length ${length} on line ${pick.line}`);
+    }
     check(pick.shot.length > 0, 'empty shot id');
   }
 }
@@ -328,7 +351,7 @@ type Mutation =
   | { readonly kind: 'delete' | 'duplicate' | 'swap' | 'truncate'; readonly at: number }
   | { readonly kind: 'insert'; readonly at: number; readonly text: string };
 
-const INSERTIONS = [',', '"', '\0', '\uFEFF', '\r', '\n', '#', ' ', '-', 'e', '.', '1e400', '-1e400', 'NaN', '9'.repeat(400), '\uD800', 'x'];
+const INSERTIONS = [',', '"', '\0', '\uFEFF', '\r', '\n', '#', ' ', '-', 'e', '.', '1e400', '-1e400', 'NaN', '9'.repeat(400), '\uD800', 'x', 'e9', '000000'];
 const mutationArbitrary: fc.Arbitrary<Mutation> = fc.oneof(
   fc.record({ kind: fc.constantFrom('delete' as const, 'duplicate' as const, 'swap' as const, 'truncate' as const), at: fc.nat() }),
   fc.record({ kind: fc.constant('insert' as const), at: fc.nat(), text: fc.oneof(fc.constantFrom(...INSERTIONS), fc.string({ unit: 'binary', minLength: 1, maxLength: 3 })) }),
@@ -375,8 +398,61 @@ describe('readPickTable properties', () => {
     );
   });
 
+  it('readPickTable refuses a time or length exactly when its SI magnitude is beyond the column\'s limit, in every unit (1,000 runs)', () => {
+    const columnArbitrary = fc.record({
+      stem: fc.constantFrom('source_x', 'receiver_x', 'source_elev', 'receiver_elev', 'source_depth', 'time', 'sigma', 'uphole'),
+      length: fc.constantFrom<LengthUnit>('m', 'km', 'ft'),
+      time: fc.constantFrom<TimeUnit>('ms', 's'),
+      mantissa: fc.integer({ min: 100, max: 999 }),
+      /** Decades around the limit: the value spans about 10⁻² to 10² times it. */
+      decade: fc.integer({ min: -2, max: 2 }),
+      negative: fc.boolean(),
+    });
+    fc.assert(
+      fc.property(columnArbitrary, ({ stem, length, time, mantissa, decade, negative }) => {
+        const isTime = stem === 'time' || stem === 'sigma' || stem === 'uphole';
+        const unitSize = isTime ? TIME_UNITS[time] : LENGTH_UNITS[length];
+        const limit = isTime ? LATEST_TIME_SECONDS : LARGEST_LENGTH_METRES;
+        // Write mantissa × 10^exponent with the exponent that puts the value within a few decades of the limit.
+        const exponent = Math.floor(Math.log10(limit / unitSize)) - 2 + decade;
+        const sign = negative && !isTime && stem !== 'source_depth' ? '-' : '';
+        const text = `${sign}${mantissa}e${exponent}`;
+        const magnitude = mantissa * 10 ** exponent * unitSize;
+        // Leave out values within a part in 10⁹ of the limit, where the oracle's double arithmetic could round across it.
+        fc.pre(Math.abs(magnitude - limit) > 1e-9 * limit);
+        const name = `${stem}_${isTime ? time : length}`;
+        const perShot = stem.startsWith('source') || stem === 'uphole';
+        const base = ['S1,0,10,25', 'S1,0,30,38', 'S1,0,60,48'];
+        const columns = ['shot', 'source_x_m', 'receiver_x_m', 'time_ms'];
+        const at = columns.findIndex((column) => column.startsWith(`${stem}_`));
+        const position = at === -1 ? columns.length : at;
+        const rows = base.map((row, index) => {
+          const cells = row.split(',');
+          if (perShot || index === 1) cells[position] = text;
+          else if (at === -1) cells[position] = '';
+          return cells.join(',');
+        });
+        if (at === -1) columns.push(name);
+        else columns[at] = name;
+        const outcome = readPickTable(`${[columns.join(','), ...rows].join('\n')}\n`, { maxProblems: MAX_PROBLEMS });
+        expectWellFormed(outcome);
+        const beyond = magnitude > limit;
+        const code = isTime ? 'time-implausible' : 'length-implausible';
+        if (!beyond) {
+          check(outcome.ok, `${name} ${text} (${magnitude} SI, limit ${limit}) was refused: ${JSON.stringify(outcome.ok ? [] : outcome.problems)}`);
+          return;
+        }
+        check(!outcome.ok, `${name} ${text} (${magnitude} SI, limit ${limit}) was accepted`);
+        const problems = outcome.ok ? [] : outcome.problems;
+        const expected = perShot ? [2, 3, 4] : [3];
+        expect(problems.map((problem) => [problem.code, problem.line, problem.column])).toEqual(expected.map((line) => [code, line, position + 1]));
+      }),
+      { seed: SEED + 4, numRuns: 1000 },
+    );
+  });
+
   it('readPickTable never throws on random text, arbitrary or CSV-like (3,500 runs)', () => {
-    const csvLike = fc.string({ unit: fc.constantFrom('a', 'S', '1', '0', ',', '"', '\n', '\r', '#', ' ', '.', '-', 'e', 'x', 'shot', 'time_ms', 'source_x_m', 'receiver_x_m'), maxLength: 200 });
+    const csvLike = fc.string({ unit: fc.constantFrom('a', 'S', '1', '0', ',', '"', '\n', '\r', '#', ' ', '.', '-', 'e', 'x', ';', '\t', 'shot', 'time_ms', 'source_x_m', 'receiver_x_m'), maxLength: 200 });
     const withHeader = csvLike.map((rest) => `shot,source_x_m,receiver_x_m,time_ms\n${rest}`);
     fc.assert(
       fc.property(fc.oneof(fc.string({ unit: 'binary', maxLength: 200 }), csvLike, withHeader), (text) => {

@@ -8,8 +8,15 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import type { Problem } from '../../lib/problems.js';
-import { PICK_TABLE_PROBLEM_CODES, readPickTable, type PickSet, type ReadPickTableOptions } from '../../lib/picks/index.js';
+import { formatProblem, type Problem } from '../../lib/problems.js';
+import {
+  LARGEST_LENGTH_METRES,
+  LATEST_TIME_SECONDS,
+  PICK_TABLE_PROBLEM_CODES,
+  readPickTable,
+  type PickSet,
+  type ReadPickTableOptions,
+} from '../../lib/picks/index.js';
 
 const FIXTURES = new URL('../fixtures/picks/', import.meta.url);
 const fixture = (name: string): Buffer => readFileSync(new URL(name, FIXTURES));
@@ -53,6 +60,9 @@ interface CodeCase {
   readonly count?: number;
 }
 
+/** A count of one with a plural noun ("1 columns", "1 more errors"), which no message may hold. */
+const ONE_WITH_PLURAL = /(^|[^\d.,])1 (more )?(fields|columns|bytes|errors|warnings|problems|picks|lines|rows)\b/;
+
 const CODE_CASES: readonly CodeCase[] = [
   {
     code: 'input-too-large', title: 'a text over maxBytes, on the line where the limit falls',
@@ -81,6 +91,14 @@ const CODE_CASES: readonly CodeCase[] = [
   },
   { code: 'quote-unclosed', title: 'a quote never closed', input: table(HEADER, ...SHOT_S1, 'S1,0,"70,52'), line: 5, column: 3, mentions: ['never closed'] },
   { code: 'quote-stray', title: 'a quote inside an unquoted cell', input: table(HEADER, ...SHOT_S1, 'S1,0,7"0,52'), line: 5, column: 3, mentions: ['double quote'] },
+  {
+    code: 'separator-not-comma', title: 'a table saved with semicolons and decimal commas (fixture semicolon-decimal-comma.csv)',
+    input: fixture('semicolon-decimal-comma.csv'), line: 2, column: null, mentions: ['separated by semicolons', 'comma-separated values'],
+  },
+  {
+    code: 'separator-not-comma', title: 'a table separated by tabs',
+    input: table(HEADER.replaceAll(',', '\t'), ...SHOT_S1.map((row) => row.replaceAll(',', '\t'))), line: 1, column: null, mentions: ['separated by tabs'],
+  },
   { code: 'header-name-empty', title: 'an empty header cell', input: table('shot,,source_x_m,receiver_x_m,time_ms', 'S1,,0,10,25'), line: 1, column: 2, mentions: ['column 2 has no name'] },
   {
     code: 'column-unit-unknown', title: 'time in microseconds',
@@ -119,10 +137,18 @@ const CODE_CASES: readonly CodeCase[] = [
   { code: 'number-not-finite', title: 'NaN as a time', input: table(HEADER, ...SHOT_S1, 'S1,0,70,NaN'), line: 5, column: 4, mentions: ['"NaN" is not a finite number'] },
   { code: 'number-not-finite', title: 'Infinity as a position', input: table(HEADER, ...SHOT_S1, 'S1,0,-Infinity,52'), line: 5, column: 3, mentions: ['"-Infinity"'] },
   { code: 'number-too-large', title: '1e999 as a position', input: table(HEADER, ...SHOT_S1, 'S1,0,1e999,52'), line: 5, column: 3, mentions: ['too large'] },
+  {
+    code: 'time-implausible', title: 'a time of 1e300 ms',
+    input: table(HEADER, ...SHOT_S1, 'S1,0,70,1e300'), line: 5, column: 4, field: 'time_ms', mentions: ['"1e300"', 'at most 100000000 ms (1e5 s)', 'more than a day'],
+  },
+  {
+    code: 'length-implausible', title: 'a receiver position of 5e7 m',
+    input: table(HEADER, ...SHOT_S1, 'S1,0,5e7,52'), line: 5, column: 3, field: 'receiver_x_m', mentions: ['"5e7"', 'within ±4.1e7 m', "Earth's circumference"],
+  },
   { code: 'time-negative', title: 'a negative time', input: table(HEADER, ...SHOT_S1, 'S1,0,70,-0.5'), line: 5, column: 4, field: 'time_ms', mentions: ['"-0.5"', 'must be 0 or more'] },
   {
     code: 'sigma-not-positive', title: 'a zero uncertainty',
-    input: table(`${HEADER},sigma_ms`, 'S1,0,10,25,0.3', 'S1,0,30,38.1149,0', 'S1,0,60,48.1292,0.3'), line: 3, column: 5, field: 'sigma_ms', mentions: ['must be more than 0'],
+    input: table(`${HEADER},sigma_ms`, 'S1,0,10,25,0.3', 'S1,0,30,38.1149,0', 'S1,0,60,48.1292,0.3'), line: 3, column: 5, field: 'sigma_ms', mentions: ['the pick uncertainty as one standard deviation must be more than 0'],
   },
   {
     code: 'source-depth-negative', title: 'a negative shot depth',
@@ -135,7 +161,7 @@ const CODE_CASES: readonly CodeCase[] = [
   {
     code: 'latitude-out-of-range', title: 'latitude 91',
     input: table('shot,source_lat,source_lon,receiver_lat,receiver_lon,time_ms', 'S1,50,7,50.001,7,25', 'S1,50,7,91,7,30', 'S1,50,7,50.003,7,35'),
-    line: 3, column: 4, field: 'receiver_lat', mentions: ['"91"', 'between -90 and 90'],
+    line: 3, column: 4, field: 'receiver_lat', mentions: ['"91"', 'the receiver latitude in decimal degrees WGS84 must lie between -90 and 90'],
   },
   {
     code: 'longitude-out-of-range', title: 'longitude 360',
@@ -177,6 +203,7 @@ describe('readPickTable problem codes', () => {
     if (entry.field !== undefined) expect(first?.field).toBe(entry.field);
     for (const words of entry.mentions) expect(first?.message).toContain(words);
     expect(first?.fix.length).toBeGreaterThan(10);
+    for (const problem of problems) expect(`${problem.message}; ${problem.fix}`).not.toMatch(ONE_WITH_PLURAL);
   });
 
   it('readPickTable has a test case for every problem code it may report', () => {
@@ -356,5 +383,137 @@ describe('readPickTable reading', () => {
     expect(() => readPickTable(42 as unknown as string)).toThrow(TypeError);
     expect(() => readPickTable(VALID, { maxProblems: 0 })).toThrow(/maxProblems must be a whole number/);
     expect(() => readPickTable(VALID, { maxBytes: 1.5 })).toThrow(/maxBytes must be a whole number/);
+  });
+});
+
+describe('readPickTable magnitude limits', () => {
+  /** Three picks of one shot with one extra column whose cell on the middle row is `value`. */
+  const withCell = (name: string, value: string, others = value): string =>
+    table(`${HEADER},${name}`, `${SHOT_S1[0]},${others}`, `${SHOT_S1[1]},${value}`, `${SHOT_S1[2]},${others}`);
+
+  it('readPickTable keeps its limits above a day and above the Earth\'s circumference', () => {
+    // A day is 86,400 s; the equatorial circumference is 2π × 6,378,137 m (WGS84 semi-major axis).
+    expect(LATEST_TIME_SECONDS).toBeGreaterThan(86_400);
+    expect(LARGEST_LENGTH_METRES).toBeGreaterThan(2 * Math.PI * 6_378_137);
+  });
+
+  it.each([
+    ['time at the limit in s', table('shot,source_x_m,receiver_x_m,time_s', 'S1,0,10,100000', 'S1,0,30,0.03', 'S1,0,60,0.05')],
+    ['time at the limit in ms', table(HEADER, 'S1,0,10,100000000', 'S1,0,30,38', 'S1,0,60,48')],
+    ['sigma at the limit', withCell('sigma_ms', '1e8', '0.3')],
+    ['uphole at the limit', withCell('uphole_s', '1e5')],
+    ['a negative position at the limit in km', table('shot,source_x_km,receiver_x_km,time_ms', 'S1,-41000,-40999.99,25', 'S1,-41000,-40999.97,38', 'S1,-41000,-40999.94,48')],
+    ['an elevation at the limit', withCell('receiver_elev_m', '4.1e7', '100')],
+    ['a shot depth at the limit', withCell('source_depth_m', '41000000')],
+    ['an elevation in ft under the limit (1.345e8 ft = 40,995,600 m)', withCell('source_elev_ft', '1.345e8')],
+  ])('readPickTable accepts %s (the limits are included)', (_title, input) => {
+    expect(loaded(input).picks).toHaveLength(3);
+  });
+
+  it.each([
+    ['a time just over 1e8 ms', table(HEADER, ...SHOT_S1, 'S1,0,70,100000000.001'), 'time-implausible', 5, 'time_ms'],
+    ['a time just over 1e5 s', table('shot,source_x_m,receiver_x_m,time_s', 'S1,0,10,0.025', 'S1,0,30,1.00000000001e5', 'S1,0,60,0.05'), 'time-implausible', 3, 'time_s'],
+    ['a pick uncertainty of 2e5 s', withCell('sigma_s', '2e5', '0.0003'), 'time-implausible', 3, 'sigma_s'],
+    ['an uphole time of 1e9 ms', withCell('uphole_ms', '1e9', '1e9'), 'time-implausible', 2, 'uphole_ms'],
+    ['a position just beyond -41000 km', table('shot,source_x_km,receiver_x_km,time_ms', 'S1,0,0.01,25', 'S1,0,-41000.001,38', 'S1,0,0.06,48'), 'length-implausible', 3, 'receiver_x_km'],
+    ['an elevation of 1.4e8 ft (42,672 km)', withCell('source_elev_ft', '1.4e8', '1.4e8'), 'length-implausible', 2, 'source_elev_ft'],
+    ['a shot depth of 5e7 m', withCell('source_depth_m', '5e7', '5e7'), 'length-implausible', 2, 'source_depth_m'],
+  ])('readPickTable refuses %s', (_title, input, code, line, field) => {
+    const problems = refused(input);
+    expect(problems[0]).toMatchObject({ code, line, field });
+    expect(problems[0]?.fix).toContain('mistyped exponent');
+  });
+
+  it('readPickTable states the limit in the column\'s unit and in SI, approximately for feet', () => {
+    expect(refused(withCell('source_elev_ft', '1.4e8', '1.4e8'))[0]?.message).toContain('within about ±134500000 ft (4.1e7 m)');
+    expect(refused(withCell('uphole_s', '2e5', '2e5'))[0]?.message).toContain('at most 1e5 s, a limit');
+  });
+
+  it('readPickTable reports a huge negative time as negative, not as implausible', () => {
+    expect(refused(table(HEADER, ...SHOT_S1, 'S1,0,70,-1e300')).map((problem) => problem.code)).toEqual(['time-negative']);
+  });
+});
+
+describe('readPickTable separators', () => {
+  it('readPickTable reports a semicolon table with one problem in the project grammar (fixture semicolon-decimal-comma.csv)', () => {
+    expect(refused(fixture('semicolon-decimal-comma.csv')).map(formatProblem)).toEqual([
+      'line 2: the table is separated by semicolons; slopebreak reads comma-separated values; save it as CSV with commas (decimal points, not commas)',
+    ]);
+  });
+
+  it('readPickTable reports a tab-separated table with quoted names as one separator-not-comma problem', () => {
+    const tabbed = table('"shot"\t"source_x_m"\t"receiver_x_m"\t"time_ms"', 'S1\t0\t10\t25', 'S1\t0\t30\t38.1149');
+    expect(refused(tabbed)).toEqual([expect.objectContaining({ code: 'separator-not-comma', line: 1, column: null, message: expect.stringContaining('by tabs') })]);
+  });
+
+  it('readPickTable reads a header with a comma as comma-separated, semicolons in a name notwithstanding', () => {
+    const outcome = readPickTable(table(`${HEADER},notes;remarks`, ...SHOT_S1.map((row) => `${row},a;b`)));
+    expect(outcome.ok && outcome.warnings.map((problem) => problem.code)).toEqual(['column-unknown']);
+  });
+});
+
+describe('readPickTable problem order', () => {
+  const MIXED = table(
+    'shot,source_x_m,receiver_x_m,time_ms,remark',
+    'S2,100,90,-5,a',
+    'S1,0,10,25,b',
+    'S1,0,30,oops,c',
+    'S1,0,60,48.1292,d',
+    'S1,0,100,59.5578',
+    'S1,0,10,25.5,e',
+  );
+
+  it('readPickTable returns problems sorted by line, then column, a whole-line problem after the cells of its line', () => {
+    // Found in the order column-unknown, time-negative, number-invalid, row-field-count, then the
+    // checks across rows: pick-duplicate (line 7) before shot-too-few-picks (line 2).
+    expect(refused(MIXED).map((problem) => `${problem.line}:${problem.column ?? '-'} ${problem.code}`)).toEqual([
+      '1:5 column-unknown',
+      '2:4 time-negative',
+      '2:- shot-too-few-picks',
+      '4:4 number-invalid',
+      '6:- row-field-count',
+      '7:- pick-duplicate',
+    ]);
+  });
+
+  it('readPickTable keeps problems at one place in the order found', () => {
+    const problems = refused(table('source_x_m,receiver_x_m,notes', '0,10,a'));
+    expect(problems.map((problem) => [problem.column, problem.message])).toEqual([
+      [3, expect.stringContaining('"notes"')],
+      [null, expect.stringContaining('no shot column')],
+      [null, expect.stringContaining('no time column')],
+    ]);
+  });
+
+  it('readPickTable lists the problems that sort first when the cap cuts the list, wherever they were found', () => {
+    const problems = refused(MIXED, { maxProblems: 3 });
+    expect(problems.map((problem) => `${problem.line} ${problem.code}`)).toEqual(['1 column-unknown', '2 time-negative', '2 shot-too-few-picks', '4 problems-truncated']);
+    expect(problems.at(-1)?.message).toContain('3 more errors were found from this line on');
+  });
+});
+
+describe('readPickTable wording', () => {
+  it('readPickTable counts one column and one field in the singular', () => {
+    expect(withCode(refused(table('shot', 'S1,0')), 'row-field-count')[0]?.message).toContain('the row has 2 fields but the header (line 1) has 1 column');
+    expect(withCode(refused(table(HEADER, ...SHOT_S1, 'S1')), 'row-field-count')[0]?.message).toContain('the row has 1 field but the header (line 1) has 4 columns');
+  });
+
+  it('readPickTable words the truncation entry for one problem left off, and for a mix of errors and warnings', () => {
+    const one = refused(table(HEADER, 'S1,0,10,-1', 'S1,0,20,-2', 'S1,0,30,-3'), { maxProblems: 2 });
+    expect(one.at(-1)?.message).toBe('1 more error was found from this line on and is not listed (the list stops at 2)');
+    const mixed = refused(table(`${HEADER},notes,remarks`, 'S1,0,10,-1,a,b', 'S1,0,30,38.1149,a,b', 'S1,0,60,48.1292,a,b'), { maxProblems: 1 });
+    expect(mixed.at(-1)?.message).toContain('2 more problems (one of them an error) were found');
+  });
+
+  it('readPickTable says "1 byte" for a size limit of one byte', () => {
+    expect(withCode(refused(VALID, { maxBytes: 1 }), 'input-too-large')[0]?.message).toContain('over the limit of 1 byte (');
+  });
+
+  it('readPickTable lists an unknown-column warning in a refusal with a fix that reads right there (no "silence this warning")', () => {
+    // A misspelt required column: the warning is the clue to the error, so the refusal keeps it.
+    const problems = refused(table('shot,source_x_m,receiver_x_m,tme_ms', 'S1,0,10,25'));
+    expect(problems.map((problem) => `${problem.severity} ${problem.code}`)).toEqual(['warning column-unknown', 'error column-missing']);
+    expect(problems[0]?.fix).toContain('rename it');
+    expect(problems[0]?.fix).not.toMatch(/silence|this warning/);
   });
 });
