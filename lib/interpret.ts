@@ -15,6 +15,7 @@ import type { LayerDepths } from './depth/types.js';
 import type { InterpretationWarning } from './checks/warning.js';
 import type { DisplayScale } from './units.js';
 import { DISPLAY_UNITS } from './units.js';
+import { definedOnly } from './defined-only.js';
 import { splitShotSides } from './branches/sides.js';
 import { segmentSide } from './branches/segment.js';
 import { segmentSideRobustly } from './branches/robust-segment.js';
@@ -92,7 +93,7 @@ export interface SurveyResult {
 }
 
 export function interpret(pickSet: PickSet, options: InterpretOptions = {}): Interpretation {
-  const settings = { ...DEFAULT_OPTIONS, ...withoutUndefined(options) };
+  const settings = { ...DEFAULT_OPTIONS, ...definedOnly(options) };
   const scale = options.scale ?? pickSet.suggestedScale;
   const result = interpretSurvey(pickSet, { ...settings, scale });
   return shapeInterpretation(result, {
@@ -279,8 +280,4 @@ export function surveyModel(combined: CombinedLayers): LayeredModel | null {
     usable.push(thickness);
   }
   return { velocities: velocities.slice(0, usable.length + 1), thicknesses: usable };
-}
-
-function withoutUndefined<T extends object>(value: T): Partial<T> {
-  return Object.fromEntries(Object.entries(value).filter(([, entry]) => entry !== undefined)) as Partial<T>;
 }

@@ -61,6 +61,7 @@ import { describePhysicalConstraint, failedPhysicalConstraint, type SegmentLine 
 import { formatQuantity } from '../checks/wording.js';
 import { leastSquaresLine } from './least-squares.js';
 import { median } from './median.js';
+import { definedOnly } from '../defined-only.js';
 import { optimalPartitions, type Partition } from './optimal-partition.js';
 import { segmentCostTable } from './segment-cost.js';
 import type { Branch, SegmentationCandidate, SegmentationNote, SegmentOptions, SideSegmentation, SidePicks } from './types.js';
@@ -282,9 +283,4 @@ function checkSettings(settings: Required<SegmentSideOptions>): void {
   if (!(settings.timeResolution > 0) || !Number.isFinite(settings.timeResolution)) {
     throw new RangeError(`segmentSide: timeResolution must be a positive number of seconds, got ${settings.timeResolution}`);
   }
-}
-
-/** Drop keys whose value is undefined, so they do not override the defaults. */
-function definedOnly<T extends object>(options: T): Partial<T> {
-  return Object.fromEntries(Object.entries(options).filter(([, value]) => value !== undefined)) as Partial<T>;
 }
