@@ -1,0 +1,74 @@
+/**
+ * The HTTP service: `createApp(config, deps)` builds the Express app — security headers, request
+ * logs, access control, JSON body limit, the routes, the 404 and the one error middleware — and
+ * returns it without listening. Nothing is kept at module level: two apps built in one process
+ * share nothing.
+ */
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import { interpret } from '../lib/interpret.js';
+import { accessControl } from './auth.js';
+import { parseConfig, type ServerConfig, type ServerConfigInput } from './config.js';
+import { errorMiddleware, unknownRoute, type ErrorTranslator } from './errors.js';
+import { createLogger, requestLogger, stderrSink, type LogSink } from './logging.js';
+import type { RouteContext } from './routes/context.js';
+import { healthRoutes } from './routes/health.js';
+import { interpretationRoutes } from './routes/interpretations.js';
+import { pickRoutes } from './routes/picks.js';
+import { surveyRoutes } from './routes/surveys.js';
+import { openDatabase } from './storage/database.js';
+import { createSurveyStore, type SurveyStore } from './storage/survey-store.js';
+import { softwareVersion } from './version.js';
+
+/** The database file inside `dataDir` (a fixed name: no request value ever becomes a path). */
+export const DATABASE_FILE_NAME = 'slopebreak.sqlite';
+
+/** What the app is built on; each has a default, tests replace them. */
+export interface AppDeps {
+  /** The survey store; default a store over `<dataDir>/slopebreak.sqlite` (folder created if missing). */
+  readonly store?: SurveyStore;
+  /** Where log lines go; default standard error. */
+  readonly logSink?: LogSink;
+  /** The interpretation pipeline; default `interpret` from lib/. */
+  readonly interpret?: typeof interpret;
+  /** The clock of the log lines. */
+  readonly now?: () => Date;
+  /** Extra error translations tried before the built-in ones. */
+  readonly errorTranslators?: readonly ErrorTranslator[];
+}
+
+function defaultStore(config: ServerConfig): SurveyStore {
+  mkdirSync(config.dataDir, { recursive: true });
+  return createSurveyStore(openDatabase(join(config.dataDir, DATABASE_FILE_NAME)));
+}
+
+export function createApp(configInput: ServerConfigInput, deps: AppDeps = {}): Express {
+  const config = parseConfig(configInput);
+  const logger = createLogger(deps.logSink ?? stderrSink, deps.now);
+  const context: RouteContext = {
+    config,
+    store: deps.store ?? defaultStore(config),
+    interpret: deps.interpret ?? interpret,
+    softwareVersion: softwareVersion(),
+  };
+
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('etag', false); // survey ETags are versions, set by the routes
+  app.set('query parser', 'simple');
+  app.use(helmet());
+  app.use(requestLogger(logger));
+  app.use(accessControl(config));
+  app.use(express.json({ limit: config.jsonBodyLimit }));
+
+  app.use(healthRoutes(context));
+  app.use(surveyRoutes(context));
+  app.use(pickRoutes(context));
+  app.use(interpretationRoutes(context));
+
+  app.use(unknownRoute);
+  app.use(errorMiddleware({ ...config, logger, translators: deps.errorTranslators ?? [] }));
+  return app;
+}

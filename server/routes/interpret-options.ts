@@ -1,0 +1,41 @@
+/**
+ * The interpretation options a request may set: one schema for a JSON body, and the same fields
+ * read from a query string (numbers written as text) for the stateless endpoint, whose body is the CSV.
+ */
+import * as z from 'zod';
+
+/**
+ * Most bootstrap replicates one request may ask for: 2,000 replicates give standard errors to
+ * about 2 % (common practice: the SE of a bootstrap SE is about 1/√(2B)), and keep one request to
+ * seconds, so a request cannot hold the server for minutes.
+ */
+export const MAX_BOOTSTRAP_REPLICATES = 2000;
+/** Most branches per shot side a request may ask for (the segmentation search grows with it). */
+export const MAX_BRANCHES = 8;
+
+/** Reads a query-string number: digits become a number, anything else is left for the schema to refuse. */
+function fromText(value: unknown): unknown {
+  return typeof value === 'string' && /^-?[0-9]+$/.test(value.trim()) ? Number(value) : value;
+}
+
+function optionFields(number: (schema: z.ZodNumber) => z.ZodType<number>) {
+  return {
+    /** Line-fit method for every branch. */
+    fitMethod: z.enum(['least-squares', 'theil-sen', 'huber']).optional(),
+    /** Residual-bootstrap replicates per shot side, 0 to skip. */
+    bootstrapReplicates: number(z.number().int().min(0).max(MAX_BOOTSTRAP_REPLICATES)).optional(),
+    /** Seed of every random procedure (32-bit unsigned). */
+    seed: number(z.number().int().min(0).max(2 ** 32 - 1)).optional(),
+    /** Display units of the result. */
+    scale: z.enum(['engineering', 'crustal']).optional(),
+    /** Most branches per shot side. */
+    maxBranches: number(z.number().int().min(1).max(MAX_BRANCHES)).optional(),
+    /** Fewest picks per automatic branch (a line needs two, a scatter estimate three). */
+    minPicksPerBranch: number(z.number().int().min(2).max(1000)).optional(),
+  };
+}
+
+export const InterpretOptionsBody = z.strictObject(optionFields((schema) => schema));
+export const InterpretOptionsQuery = z.strictObject(optionFields((schema) => z.preprocess(fromText, schema)));
+
+export type InterpretOptionsInput = z.infer<typeof InterpretOptionsBody>;

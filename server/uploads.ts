@@ -1,0 +1,164 @@
+/**
+ * Uploads: a file arrives as one multipart field (`file`) or as the raw request body (text/csv), is
+ * held in memory within the configured limits, and is recognised by its content, never by its name
+ * or declared type. A registry of sniffers tries each known kind; today that is the pick table, and
+ * SEG-2 / SEG-Y gather sniffers join `UPLOAD_SNIFFERS` when their readers exist. An upload no sniffer
+ * accepts is refused with 415 naming what was found. Nothing here touches the store, so a refused
+ * upload leaves nothing behind.
+ */
+import express, { type Request, type RequestHandler } from 'express';
+import multer from 'multer';
+import { ApiError } from './errors.js';
+
+/** An upload held in memory, before it is recognised. */
+export interface ReceivedFile {
+  /** The name the client gave (sanitised before it is ever shown or sent back). */
+  readonly fileName: string;
+  /** The media type the client declared (kept for the record, never trusted). */
+  readonly declaredType: string;
+  readonly bytes: Uint8Array;
+}
+
+/** A kind of upload the server can read. */
+export type UploadKind = 'pick-table';
+
+export interface UploadKindInfo {
+  readonly kind: UploadKind;
+  /** Media type stored with the file and sent when it is downloaded. */
+  readonly mediaType: string;
+}
+
+/** A sniffer's answer: the kind, or the reason it is not this kind (in words, for the 415 message). */
+export type SniffResult = { readonly ok: true; readonly info: UploadKindInfo } | { readonly ok: false; readonly reason: string };
+
+export interface UploadSniffer {
+  readonly kind: UploadKind;
+  sniff(bytes: Uint8Array): SniffResult;
+}
+
+/** How many leading bytes the text checks look at (a header line is far shorter). */
+const SNIFF_BYTES = 64 * 1024;
+
+function leadingText(bytes: Uint8Array): { text: string } | { reason: string } {
+  const head = bytes.subarray(0, SNIFF_BYTES);
+  if (head.length === 0) return { reason: 'an empty file' };
+  if (head.includes(0)) return { reason: 'binary data (a zero byte in the first 64 KiB)' };
+  try {
+    // A multi-byte character cut at the window's edge is not a fault: decode in streaming mode.
+    return { text: new TextDecoder('utf-8', { fatal: true }).decode(head, { stream: head.length < bytes.length }) };
+  } catch {
+    return { reason: 'text that is not UTF-8' };
+  }
+}
+
+/** Any of the separators a pick-table header might be written with; the reader explains a wrong one. */
+const HEADER_SEPARATORS = /[,;\t]/;
+
+/**
+ * The pick-table sniffer: UTF-8 text whose first line that is neither blank nor a `#` comment has a
+ * `shot` column (case-insensitive, quotes and spaces ignored). Semicolon- and tab-separated headers
+ * pass here so that the reader can say which separator to use.
+ */
+export const pickTableSniffer: UploadSniffer = {
+  kind: 'pick-table',
+  sniff(bytes) {
+    const decoded = leadingText(bytes);
+    if ('reason' in decoded) return { ok: false, reason: decoded.reason };
+    const text = decoded.text.replace(/^\uFEFF/, '');
+    const header = text.split(/\r\n|\n|\r/).find((line) => line.trim() !== '' && !line.trimStart().startsWith('#'));
+    if (header === undefined) return { ok: false, reason: 'text with only comments or blank lines' };
+    const columns = header.split(HEADER_SEPARATORS).map((cell) => cell.trim().replace(/^"(.*)"$/, '$1').trim().toLowerCase());
+    if (!columns.includes('shot')) {
+      const shown = header.length > 80 ? `${header.slice(0, 80)}…` : header;
+      return { ok: false, reason: `text whose first line ${JSON.stringify(shown)} has no shot column` };
+    }
+    return { ok: true, info: { kind: 'pick-table', mediaType: 'text/csv' } };
+  },
+};
+
+/** Every sniffer, tried in order. Add gather sniffers (SEG-2, SEG-Y) here. */
+export const UPLOAD_SNIFFERS: readonly UploadSniffer[] = [pickTableSniffer];
+
+/** Recognise an upload, or throw the 415 naming what each sniffer found. */
+export function recogniseUpload(file: ReceivedFile, accepted: readonly UploadKind[], sniffers: readonly UploadSniffer[] = UPLOAD_SNIFFERS): UploadKindInfo {
+  const reasons: string[] = [];
+  for (const sniffer of sniffers) {
+    if (!accepted.includes(sniffer.kind)) continue;
+    const result = sniffer.sniff(file.bytes);
+    if (result.ok) return result.info;
+    reasons.push(result.reason);
+  }
+  throw new ApiError({
+    code: 'upload-type-unsupported', status: 415,
+    message: `the upload ${JSON.stringify(sanitiseFileName(file.fileName))} is not a pick table: found ${reasons.join('; ') || 'nothing this server reads'}; nothing was stored`,
+    fix: 'upload a UTF-8 CSV pick table whose header row has a shot column (see the pick-table columns in the README)',
+    details: { accepted, found: reasons },
+  });
+}
+
+/** Media types accepted as a raw-body upload. */
+const RAW_BODY_TYPES = ['text/csv', 'text/plain', 'application/octet-stream'];
+
+export interface UploadSettings {
+  readonly maxUploadBytes: number;
+  readonly maxFilesPerUpload: number;
+}
+
+/**
+ * Middleware that puts the upload on `request.file` / `request.body`: multipart (memory storage,
+ * size and count limits from config) or a raw body of one of `RAW_BODY_TYPES` (same size limit).
+ * Build once per app; holds no state between requests.
+ */
+export function receiveUpload(settings: UploadSettings): RequestHandler[] {
+  const multipart = multer({
+    storage: multer.memoryStorage(),
+    limits: { fileSize: settings.maxUploadBytes, files: settings.maxFilesPerUpload, fields: 10, fieldSize: 64 * 1024, parts: settings.maxFilesPerUpload + 10 },
+  }).any();
+  const raw = express.raw({ type: RAW_BODY_TYPES, limit: settings.maxUploadBytes });
+  return [multipart, raw];
+}
+
+/** Name given to a raw-body upload that names nothing. */
+const RAW_BODY_NAME = 'upload.csv';
+
+/** The one file of an upload request (after `receiveUpload`), or a 400 saying how to send it. */
+export function receivedFile(request: Request): ReceivedFile {
+  const files = Array.isArray(request.files) ? request.files : [];
+  if (files.length > 1) {
+    throw new ApiError({
+      code: 'upload-one-file', status: 400,
+      message: `this endpoint takes one pick table per request, and the upload has ${files.length} files`,
+      fix: 'send each file in its own request',
+    });
+  }
+  const file = files[0];
+  if (file !== undefined) return { fileName: file.originalname, declaredType: file.mimetype, bytes: new Uint8Array(file.buffer) };
+  if (Buffer.isBuffer(request.body) && request.body.length > 0) {
+    const named = request.get('x-file-name');
+    return { fileName: named ?? RAW_BODY_NAME, declaredType: request.get('content-type') ?? '', bytes: new Uint8Array(request.body) };
+  }
+  throw new ApiError({
+    code: 'upload-missing', status: 400,
+    message: 'the request carries no file: neither a multipart field nor a text/csv body',
+    fix: 'send the pick table as multipart/form-data (field "file") or as the body with Content-Type: text/csv',
+  });
+}
+
+/** Longest file name kept. */
+const MAX_NAME_LENGTH = 120;
+
+/**
+ * A file name safe to show and to put in a Content-Disposition header: the last path segment only,
+ * letters, digits, dot, dash, underscore and space kept, anything else replaced by `_`, no leading
+ * dots, at most 120 characters; `upload` when nothing is left. Never used as a path.
+ */
+export function sanitiseFileName(name: string): string {
+  const lastSegment = name.split(/[\\/]/).pop() ?? '';
+  const cleaned = lastSegment
+    .normalize('NFKC')
+    .replace(/[^A-Za-z0-9._ -]/g, '_')
+    .replace(/^[.\s]+/, '')
+    .trim()
+    .slice(0, MAX_NAME_LENGTH);
+  return cleaned === '' || /^_+$/.test(cleaned) ? 'upload' : cleaned;
+}
