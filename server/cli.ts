@@ -11,7 +11,8 @@
  * from it (the reasons are on stderr); 2 usage error; 3 internal error (a bug). A closed output pipe
  * ends the command quietly.
  */
-import { readFileSync, realpathSync, statSync } from 'node:fs';
+import { existsSync, readFileSync, realpathSync, statSync } from 'node:fs';
+import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { basename } from 'node:path';
 import { parseArgs } from 'node:util';
@@ -22,11 +23,17 @@ import { interpretationJsonSchema } from '../lib/interpretation/shape.js';
 import type { FitMethod } from '../lib/branches/types.js';
 import { formatSummary } from './summary.js';
 import { softwareVersion } from './version.js';
+import { startServer } from './serve.js';
+import { DATABASE_FILE_NAME } from './app.js';
+import { openDatabase } from './storage/database.js';
+import { backupDatabase } from './storage/backup.js';
 
 const USAGE = `slopebreak — seismic-refraction interpretation
 
 usage:
   slopebreak interpret FILE [options]   interpret a pick table (CSV) and print a summary
+  slopebreak serve [serve options]      run the office service (HTTP API) over a data folder
+  slopebreak backup --data DIR --to FILE   write a consistent copy of the service's database
   slopebreak schema                     print the JSON Schema of the interpretation
   slopebreak --version | --help
 
@@ -39,6 +46,14 @@ interpret options:
   --scale SCALE          engineering (m, ms, m/s) or crustal (km, s, km/s); default from the table
   --max-branches N       most branches per shot side (default 5)
   --min-picks N          fewest picks per automatic branch (default 3)
+
+serve options:
+  --host H               interface to listen on (default 127.0.0.1; 0.0.0.0 opens it to the office network)
+  --port P               TCP port (default 8080; 0 picks a free one)
+  --data DIR             folder of the database (default .slopebreak-data)
+  --token T              access token for writes from other machines (default: generated on first start)
+  --lock-reads           require the token for reads from other machines too
+  --samples DIR          load the pick tables in DIR as surveys when the database is empty
 `;
 
 class UsageError extends Error {}
@@ -119,12 +134,80 @@ function runInterpret(args: readonly string[]): number {
   return 0;
 }
 
+function runServe(args: readonly string[]): void {
+  const { values, positionals } = parseArgs({
+    args: [...args],
+    allowPositionals: true,
+    options: {
+      host: { type: 'string' },
+      port: { type: 'string' },
+      data: { type: 'string' },
+      token: { type: 'string' },
+      'lock-reads': { type: 'boolean' },
+      samples: { type: 'string' },
+    },
+  });
+  if (positionals.length > 0) throw new UsageError(`serve takes no file, got "${positionals[0]}"`);
+  const port = values.port === undefined ? undefined : positiveInteger(values.port, '--port', 0);
+  if (port !== undefined && port > 65535) throw new UsageError(`--port takes 0 to 65535, got ${port}`);
+  startServer({
+    host: values.host ?? '127.0.0.1',
+    ...(port !== undefined ? { port } : {}),
+    dataDir: values.data ?? '.slopebreak-data',
+    ...(values.token ? { accessToken: values.token } : {}),
+    lockReads: values['lock-reads'] ?? false,
+    ...(values.samples ? { sampleFolder: values.samples } : {}),
+  }).then(
+    (running) => {
+      process.stdout.write(`slopebreak ${softwareVersion()} is serving; open:\n${running.urls.map((url) => `  ${url}`).join('\n')}\n(Ctrl-C stops it after the requests in progress finish)\n`);
+      const stop = () => {
+        running.stop().then(() => process.exit(0), () => process.exit(1));
+      };
+      process.once('SIGINT', stop);
+      process.once('SIGTERM', stop);
+    },
+    (error: Error) => {
+      process.stderr.write(`slopebreak: the service could not start: ${error.message}\n`);
+      process.exit(1);
+    },
+  );
+}
+
+function runBackup(args: readonly string[]): void {
+  const { values } = parseArgs({ args: [...args], options: { data: { type: 'string' }, to: { type: 'string' } } });
+  if (!values.to) throw new UsageError('backup needs --to FILE, the copy to write');
+  const file = join(values.data ?? '.slopebreak-data', DATABASE_FILE_NAME);
+  if (!existsSync(file)) {
+    process.stderr.write(`slopebreak: no database at ${file}; give the service's --data folder\n`);
+    process.exitCode = 1;
+    return;
+  }
+  const db = openDatabase(file);
+  backupDatabase(db, values.to).then(
+    () => {
+      db.close();
+      process.stdout.write(`slopebreak: consistent copy of ${file} written to ${values.to}\n`);
+    },
+    (error: Error) => {
+      db.close();
+      process.stderr.write(`slopebreak: backup failed: ${error.message}\n`);
+      process.exitCode = 1;
+    },
+  );
+}
+
 export function main(argv: readonly string[]): number {
   const [command, ...rest] = argv;
   try {
     switch (command) {
       case 'interpret':
         return runInterpret(rest);
+      case 'serve':
+        runServe(rest);
+        return -1;
+      case 'backup':
+        runBackup(rest);
+        return -1;
       case 'schema':
         process.stdout.write(`${JSON.stringify(interpretationJsonSchema(), null, 2)}\n`);
         return 0;
@@ -167,7 +250,9 @@ if (invokedDirectly()) {
     throw error;
   });
   try {
-    process.exitCode = main(process.argv.slice(2));
+    // Long-running commands (serve, backup) return −1 and set the exit code themselves.
+    const status = main(process.argv.slice(2));
+    if (status >= 0) process.exitCode = status;
   } catch (error) {
     // A programming error: say so plainly, with what a bug report needs, and exit non-zero.
     process.stderr.write(

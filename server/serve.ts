@@ -1,0 +1,141 @@
+/**
+ * Starting the office service: open the database, build the app (`createApp`), listen, say where
+ * to open it, and stop gracefully.
+ *
+ * - Access token: when the server listens beyond this machine and no token is configured, one is
+ *   generated on first start, kept in `<dataDir>/access-token` (readable by its owner only) and
+ *   printed once; later starts read it and say where it is. Colleagues read without it; writes from
+ *   other machines need it (`Authorization: Bearer <token>`).
+ * - URLs: the local URL, and every non-internal IPv4 address of this machine when the server
+ *   listens on all interfaces (`0.0.0.0`), so a colleague knows what to type.
+ * - Graceful shutdown (SIGINT, SIGTERM, or `stop()`): stop accepting connections, let in-flight
+ *   requests — writes included — finish, then close the database; after `SHUTDOWN_GRACE_MS` the
+ *   remaining idle connections are closed.
+ */
+import { existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { randomBytes } from 'node:crypto';
+import type { AddressInfo } from 'node:net';
+import { createServer, type Server } from 'node:http';
+import { networkInterfaces } from 'node:os';
+import { basename, join } from 'node:path';
+import { readPickTable } from '../lib/picks/index.js';
+import { createApp, DATABASE_FILE_NAME } from './app.js';
+import { parseConfig, LOOPBACK_ADDRESSES, type ServerConfigInput } from './config.js';
+import { openDatabase } from './storage/database.js';
+import { createSurveyStore, type SurveyStore } from './storage/survey-store.js';
+
+/** The file in the data folder that keeps a generated access token. */
+export const TOKEN_FILE_NAME = 'access-token';
+/** How long shutdown waits for in-flight requests before closing idle connections, ms. */
+export const SHUTDOWN_GRACE_MS = 10_000;
+
+export interface RunningServer {
+  readonly server: Server;
+  /** URLs a person can open, the local one first. */
+  readonly urls: readonly string[];
+  readonly port: number;
+  /** Stop gracefully: finish in-flight requests, then close the database. */
+  readonly stop: () => Promise<void>;
+}
+
+export interface ServeOptions extends ServerConfigInput {
+  /** Where messages for the operator go (URLs, the token). Default standard output. */
+  readonly say?: (line: string) => void;
+  /** A folder of pick tables to load as surveys when the database holds none yet. */
+  readonly sampleFolder?: string;
+}
+
+/**
+ * Loads every `.csv` pick table in `folder` as a survey (name from the file, description from its
+ * first comment line), when the store holds no survey yet; a table the reader refuses is skipped
+ * and named. Returns how many were loaded.
+ */
+export function loadSampleSurveys(store: SurveyStore, folder: string, say: (line: string) => void): number {
+  if (store.listSurveys({}).length > 0) return 0;
+  let loaded = 0;
+  for (const name of readdirSync(folder).filter((entry) => entry.endsWith('.csv')).sort()) {
+    const bytes = readFileSync(join(folder, name));
+    const outcome = readPickTable(bytes);
+    if (!outcome.ok) {
+      say(`Sample ${name} was not loaded: ${outcome.problems[0]?.message ?? 'refused'}`);
+      continue;
+    }
+    const comment = bytes.toString('utf8').split(/\r?\n/).find((line) => line.startsWith('#'));
+    const survey = store.createSurvey({
+      name: basename(name, '.csv'),
+      ...(comment ? { description: comment.replace(/^#\s*/, '') } : {}),
+      scale: outcome.value.suggestedScale,
+    });
+    store.addPickUpload(survey.id, { fileName: name, mediaType: 'text/csv', bytes, pickSetJson: JSON.stringify(outcome.value) }, survey.version);
+    loaded += 1;
+  }
+  return loaded;
+}
+
+/** True for an address that stays on this machine. */
+export function isLoopbackHost(host: string): boolean {
+  return host === 'localhost' || LOOPBACK_ADDRESSES.includes(host) || /^127\./.test(host);
+}
+
+/** The token for a server listening beyond this machine: configured, kept from an earlier start, or new. */
+export function accessTokenFor(dataDir: string, configured: string | undefined, say: (line: string) => void): string {
+  if (configured) return configured;
+  const file = join(dataDir, TOKEN_FILE_NAME);
+  if (existsSync(file)) {
+    say(`Access token for writes from other machines: kept in ${file}`);
+    return readFileSync(file, 'utf8').trim();
+  }
+  const token = randomBytes(24).toString('base64url');
+  writeFileSync(file, `${token}\n`, { mode: 0o600, flag: 'wx' });
+  say(`Access token for writes from other machines (shown once; kept in ${file}): ${token}`);
+  return token;
+}
+
+/** The URLs to open: local first, then this machine's network addresses when listening on all interfaces. */
+export function serverUrls(host: string, port: number): string[] {
+  const local = `http://${isLoopbackHost(host) || host === '0.0.0.0' || host === '::' ? '127.0.0.1' : host}:${port}/`;
+  if (host !== '0.0.0.0' && host !== '::') return [local];
+  const lan = Object.values(networkInterfaces())
+    .flat()
+    .filter((entry) => entry !== undefined && entry.family === 'IPv4' && !entry.internal)
+    .map((entry) => `http://${entry!.address}:${port}/`);
+  return [local, ...lan];
+}
+
+export async function startServer(options: ServeOptions): Promise<RunningServer> {
+  const say = options.say ?? ((line: string) => process.stdout.write(`${line}\n`));
+  const { say: _say, sampleFolder, ...configInput } = options;
+  const preliminary = parseConfig(configInput);
+  mkdirSync(preliminary.dataDir, { recursive: true });
+  const accessToken = isLoopbackHost(preliminary.host)
+    ? preliminary.accessToken
+    : accessTokenFor(preliminary.dataDir, preliminary.accessToken, say);
+  const db = openDatabase(join(preliminary.dataDir, DATABASE_FILE_NAME));
+  const store = createSurveyStore(db);
+  if (sampleFolder) {
+    const loaded = loadSampleSurveys(store, sampleFolder, say);
+    if (loaded > 0) say(`Loaded ${loaded} sample survey(s) from ${sampleFolder}`);
+  }
+  const app = createApp({ ...configInput, ...(accessToken ? { accessToken } : {}) }, { store });
+  const server = createServer(app);
+  await new Promise<void>((resolve, reject) => {
+    server.once('error', reject);
+    server.listen(preliminary.port, preliminary.host, () => resolve());
+  });
+  const { port } = server.address() as AddressInfo;
+  const urls = serverUrls(preliminary.host, port);
+  let stopping: Promise<void> | null = null;
+  const stop = () => {
+    stopping ??= new Promise<void>((resolve) => {
+      const grace = setTimeout(() => server.closeAllConnections(), SHUTDOWN_GRACE_MS);
+      server.close(() => {
+        clearTimeout(grace);
+        db.close();
+        resolve();
+      });
+      server.closeIdleConnections();
+    });
+    return stopping;
+  };
+  return { server, urls, port, stop };
+}
