@@ -15,6 +15,7 @@ import { errorMiddleware, unknownRoute, type ErrorTranslator } from './errors.js
 import { createLogger, requestLogger, stderrSink, type LogSink } from './logging.js';
 import type { RouteContext } from './routes/context.js';
 import { healthRoutes } from './routes/health.js';
+import { serviceIndexRoutes } from './routes/service-index.js';
 import { interpretationRoutes } from './routes/interpretations.js';
 import { pickRoutes } from './routes/picks.js';
 import { surveyRoutes } from './routes/surveys.js';
@@ -64,6 +65,7 @@ export function createApp(configInput: ServerConfigInput, deps: AppDeps = {}): E
   app.use(express.json({ limit: config.jsonBodyLimit }));
 
   app.use(healthRoutes(context));
+  app.use(serviceIndexRoutes(context));
   app.use(surveyRoutes(context));
   app.use(pickRoutes(context));
   app.use(interpretationRoutes(context));

@@ -23,6 +23,8 @@ import { createApp, DATABASE_FILE_NAME } from './app.js';
 import { parseConfig, LOOPBACK_ADDRESSES, type ServerConfigInput } from './config.js';
 import { openDatabase } from './storage/database.js';
 import { createSurveyStore, type SurveyStore } from './storage/survey-store.js';
+import { interpretAndStore } from './revisions.js';
+import { softwareVersion } from './version.js';
 
 /** The file in the data folder that keeps a generated access token. */
 export const TOKEN_FILE_NAME = 'access-token';
@@ -47,8 +49,8 @@ export interface ServeOptions extends ServerConfigInput {
 
 /**
  * Loads every `.csv` pick table in `folder` as a survey (name from the file, description from its
- * first comment line), when the store holds no survey yet; a table the reader refuses is skipped
- * and named. Returns how many were loaded.
+ * first comment line) with a first interpretation as revision 1, when the store holds no survey
+ * yet; a table the reader refuses is skipped and named. Returns how many were loaded.
  */
 export function loadSampleSurveys(store: SurveyStore, folder: string, say: (line: string) => void): number {
   if (store.listSurveys({}).length > 0) return 0;
@@ -67,6 +69,8 @@ export function loadSampleSurveys(store: SurveyStore, folder: string, say: (line
       scale: outcome.value.suggestedScale,
     });
     store.addPickUpload(survey.id, { fileName: name, mediaType: 'text/csv', bytes, pickSetJson: JSON.stringify(outcome.value) }, survey.version);
+    // A first revision with the default options, so a newcomer sees a result without a click.
+    interpretAndStore(store, survey.id, outcome.value, { scale: outcome.value.suggestedScale }, { sourceName: name, softwareVersion: softwareVersion() });
     loaded += 1;
   }
   return loaded;

@@ -13,6 +13,7 @@ import { receivedFile, receiveUpload, recogniseUpload, sanitiseFileName } from '
 import { expectedVersion, problemsError, RevisionParams, sendCsv, surveyId } from './common.js';
 import type { RouteContext } from './context.js';
 import { currentPicks } from './current-picks.js';
+import { interpretAndStore } from '../revisions.js';
 import { InterpretOptionsBody, InterpretOptionsQuery, type InterpretOptionsInput } from './interpret-options.js';
 
 function revisionJson(revision: RevisionSummary) {
@@ -48,6 +49,7 @@ export function interpretationRoutes(context: RouteContext): Router {
     const settings: InterpretOptions = { ...options, sourceName, softwareVersion: context.softwareVersion };
     return context.interpret(pickSet, settings);
   };
+  const meta = (sourceName: string) => ({ sourceName, softwareVersion: context.softwareVersion, interpret: context.interpret });
 
   router.post('/api/surveys/:id/interpretations', (request, response) => {
     const id = surveyId(request);
@@ -56,8 +58,7 @@ export function interpretationRoutes(context: RouteContext): Router {
     const version = request.get('if-match') === undefined ? survey.version : expectedVersion(request);
     const picks = currentPicks(store, id);
     const chosen = { ...options, scale: options.scale ?? survey.scale };
-    const result = run(picks.pickSet, chosen, survey.name);
-    const revision = store.addRevision(id, { optionsJson: JSON.stringify(chosen), resultJson: JSON.stringify(result) }, version);
+    const { revision, result } = interpretAndStore(store, id, picks.pickSet, chosen, meta(survey.name), version);
     response.status(201).location(`/api/surveys/${id}/revisions/${revision.number}`).json({ ...revisionJson(revision), result });
   });
 

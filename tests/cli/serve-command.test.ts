@@ -52,6 +52,11 @@ describe('slopebreak serve', () => {
     const surveys = (await (await fetch(new URL('api/surveys', url))).json()) as { surveys?: unknown[] } | unknown[];
     const list = Array.isArray(surveys) ? surveys : (surveys.surveys ?? []);
     expect(list.length).toBe(readdirSync('sample-surveys').filter((name) => name.endsWith('.csv')).length);
+    // Each sample comes with a first interpretation, so a newcomer sees a result without a click.
+    for (const survey of list as { id: string }[]) {
+      const revisions = (await (await fetch(new URL(`api/surveys/${survey.id}/revisions/1`, url))).json()) as { result?: { layers?: unknown[] } };
+      expect(revisions.result?.layers?.length).toBeGreaterThanOrEqual(2);
+    }
     const done = exited(child);
     child.kill('SIGTERM');
     expect(await done).toBe(0);
