@@ -230,8 +230,43 @@ export function toApiError(error: unknown, options: Omit<ErrorMiddlewareOptions,
   }
   if (error instanceof multer.MulterError) return multerError(error, options);
   if (error instanceof z.ZodError) return validationError(error, 'body');
-  if (isBodyParserError(error)) return bodyParserError(error, options);
-  return null;
+  if (isBodyParserError(error)) {
+    const translated = bodyParserError(error, options);
+    if (translated) return translated;
+  }
+  return clientFault(error);
+}
+
+/**
+ * Errors that the layers below Express (the router, body-parser) already marked as the client's
+ * fault with a 4xx status but no type we translate: an undecodable percent-escape in the path
+ * (`URIError`), a body whose Content-Encoding does not match its bytes. They are the client's
+ * mistake, never a 500.
+ */
+function clientFault(error: unknown): ApiError | null {
+  if (typeof error !== 'object' || error === null) return null;
+  const status = (error as { status?: unknown; statusCode?: unknown }).status ?? (error as { statusCode?: unknown }).statusCode;
+  if (typeof status !== 'number' || status < 400 || status > 499) return null;
+  if (error instanceof URIError) {
+    return new ApiError({
+      code: 'path-not-decodable', status: 400,
+      message: 'the request path holds a percent-escape that is not valid UTF-8',
+      fix: 'percent-encode the path as UTF-8 (for example %20 for a space), or use the ids the API returned',
+    });
+  }
+  const message = error instanceof Error ? error.message : '';
+  if (/incorrect header check|unexpected end of file|invalid|zlib|decompress/i.test(message) || (error as { code?: unknown }).code === 'Z_DATA_ERROR') {
+    return new ApiError({
+      code: 'body-encoding-invalid', status: 400,
+      message: 'the request body does not match its Content-Encoding (it could not be decompressed); nothing was stored',
+      fix: 'send the body uncompressed, or compress it as the Content-Encoding header says',
+    });
+  }
+  return new ApiError({
+    code: 'request-malformed', status: 400,
+    message: 'the request could not be read as sent; nothing was stored',
+    fix: 'check the request line, headers and body against the API description at GET /api',
+  });
 }
 
 const INTERNAL_ERROR = new ApiError({

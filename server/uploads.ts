@@ -114,8 +114,25 @@ export function receiveUpload(settings: UploadSettings): RequestHandler[] {
     storage: multer.memoryStorage(),
     limits: { fileSize: settings.maxUploadBytes, files: settings.maxFilesPerUpload, fields: 10, fieldSize: 64 * 1024, parts: settings.maxFilesPerUpload + 10 },
   }).any();
+  // multer passes the multipart parser's own errors (no boundary, truncated or garbled parts)
+  // through as plain errors: they are the client's malformed upload, a 400, never a 500.
+  const multipartOrFault: RequestHandler = (request, response, next) => {
+    multipart(request, response, (error?: unknown) => {
+      if (error === undefined || error === null || error instanceof multer.MulterError || error instanceof ApiError) {
+        next(error as Error | undefined);
+        return;
+      }
+      next(
+        new ApiError({
+          code: 'upload-malformed', status: 400,
+          message: `the multipart upload could not be read (${error instanceof Error ? error.message : 'malformed'}); nothing was stored`,
+          fix: 'send the file as multipart/form-data with a boundary and one field named "file", or as the body with Content-Type: text/csv',
+        }),
+      );
+    });
+  };
   const raw = express.raw({ type: RAW_BODY_TYPES, limit: settings.maxUploadBytes });
-  return [multipart, raw];
+  return [multipartOrFault, raw];
 }
 
 /** Name given to a raw-body upload that names nothing. */
