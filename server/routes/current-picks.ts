@@ -1,6 +1,6 @@
 /**
- * The survey's working pick set: the newest uploaded pick set with the branch edits made since that
- * upload applied in order.
+ * The survey's working pick set: the newest uploaded pick set with the branch edits made on it
+ * applied in order.
  */
 import { applyBranchEdits, type BranchEdit } from '../../lib/branches/edits.js';
 import type { PickSet } from '../../lib/picks/types.js';
@@ -18,8 +18,8 @@ export interface CurrentPicks {
 }
 
 /**
- * Reads the current picks. Edits belong to the upload they were made after: an edit stored before
- * the newest pick set (by creation time) is not applied to it. Throws the store's NotFoundError
+ * Reads the current picks. Edits belong to the pick set they were made on (the store records it):
+ * edits made on an earlier upload are not applied to a newer one. Throws the store's NotFoundError
  * when the survey or its pick set is missing; stored edits that no longer apply are a 422.
  */
 export function currentPicks(store: SurveyStore, surveyId: string): CurrentPicks {
@@ -27,7 +27,7 @@ export function currentPicks(store: SurveyStore, surveyId: string): CurrentPicks
   const uploaded = JSON.parse(record.pickSetJson) as PickSet;
   const edits = store
     .listBranchEdits(surveyId)
-    .filter((entry) => entry.createdAt >= record.createdAt)
+    .filter((entry) => entry.pickSetId === record.id)
     .flatMap((entry) => JSON.parse(entry.editsJson) as BranchEdit[]);
   const outcome = applyBranchEdits(uploaded, edits);
   if (!outcome.ok) throw problemsError('stored-edits-invalid', `the stored branch edits of survey ${surveyId}`, outcome.problems);

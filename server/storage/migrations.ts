@@ -82,7 +82,25 @@ CREATE TABLE revisions (
 ) STRICT;
 `;
 
+/**
+ * Migration 2: a branch edit belongs to the pick set it was made on (telling them apart by creation
+ * time mixed an edit and an upload made in the same millisecond). Existing edits are given the
+ * newest pick set created at or before them, which is what the creation-time rule meant.
+ */
+const editsBelongToPickSets = `
+ALTER TABLE branch_edits ADD COLUMN pick_set_id INTEGER REFERENCES pick_sets (id) ON DELETE CASCADE;
+
+UPDATE branch_edits SET pick_set_id = (
+  SELECT p.id FROM pick_sets AS p
+  WHERE p.survey_id = branch_edits.survey_id AND p.created_at <= branch_edits.created_at
+  ORDER BY p.id DESC LIMIT 1
+);
+
+CREATE INDEX branch_edits_by_pick_set ON branch_edits (pick_set_id, sequence);
+`;
+
 /** All migrations this code knows, oldest first. */
 export const MIGRATIONS: readonly Migration[] = [
   { version: 1, name: 'surveys, uploads, pick sets, branch edits and revisions', sql: initialSchema },
+  { version: 2, name: 'branch edits belong to the pick set they were made on', sql: editsBelongToPickSets },
 ];

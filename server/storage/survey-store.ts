@@ -38,6 +38,8 @@ export interface UploadRecord extends UploadInfo {
 }
 
 export interface PickSetRecord {
+  /** Row id: edits name the pick set they were made on by it. */
+  readonly id: number;
   readonly surveyId: string;
   /** The upload it was parsed from; null if it came from somewhere else (an edit, say). */
   readonly uploadId: string | null;
@@ -49,6 +51,8 @@ export interface BranchEditRecord {
   readonly surveyId: string;
   /** 1, 2, 3… per survey, in the order the edits were made. */
   readonly sequence: number;
+  /** The pick set that was current when the edits were made (null only if the survey had none). */
+  readonly pickSetId: number | null;
   readonly editsJson: string;
   readonly createdAt: string;
 }
@@ -259,7 +263,7 @@ export function createSurveyStore(db: Database, options: StoreOptions = {}) {
   );
 
   const selectCurrentPickSet = db.prepare<[string], PickSetRecord>(
-    `SELECT survey_id AS surveyId, upload_id AS uploadId, pick_set_json AS pickSetJson, created_at AS createdAt
+    `SELECT id, survey_id AS surveyId, upload_id AS uploadId, pick_set_json AS pickSetJson, created_at AS createdAt
      FROM pick_sets WHERE survey_id = ? ORDER BY id DESC LIMIT 1`,
   );
   const selectUpload = db.prepare<[string, string], UploadInfo & { bytes: Buffer }>(
@@ -269,20 +273,22 @@ export function createSurveyStore(db: Database, options: StoreOptions = {}) {
   const nextEditSequence = db.prepare<[string], number>(
     'SELECT coalesce(max(sequence), 0) + 1 FROM branch_edits WHERE survey_id = ?',
   ).pluck();
-  const insertEdit = db.prepare<[string, number, string, string]>(
-    'INSERT INTO branch_edits (survey_id, sequence, edits_json, created_at) VALUES (?, ?, ?, ?)',
+  const insertEdit = db.prepare<[string, number, number | null, string, string]>(
+    'INSERT INTO branch_edits (survey_id, sequence, pick_set_id, edits_json, created_at) VALUES (?, ?, ?, ?, ?)',
   );
   const addEdits = writeTransaction(
-    (surveyId: string, editsJson: string, expectedVersion: number): { sequence: number; version: number } => {
+    (surveyId: string, editsJson: string, expectedVersion: number): { sequence: number; pickSetId: number | null; version: number } => {
       const createdAt = now();
       const version = claimVersion(surveyId, expectedVersion, createdAt);
       const sequence = nextEditSequence.get(surveyId) ?? 1;
-      insertEdit.run(surveyId, sequence, editsJson, createdAt);
-      return { sequence, version };
+      // Inside the transaction: the pick set the edit was made on cannot change under it.
+      const pickSetId = selectCurrentPickSet.get(surveyId)?.id ?? null;
+      insertEdit.run(surveyId, sequence, pickSetId, editsJson, createdAt);
+      return { sequence, pickSetId, version };
     },
   );
   const selectEdits = db.prepare<[string], BranchEditRecord>(
-    `SELECT survey_id AS surveyId, sequence, edits_json AS editsJson, created_at AS createdAt
+    `SELECT survey_id AS surveyId, sequence, pick_set_id AS pickSetId, edits_json AS editsJson, created_at AS createdAt
      FROM branch_edits WHERE survey_id = ? ORDER BY sequence`,
   );
 
@@ -383,8 +389,8 @@ export function createSurveyStore(db: Database, options: StoreOptions = {}) {
       return upload;
     },
 
-    /** Appends a set of branch assignments / pick edits as the next in sequence. */
-    addBranchEdits(surveyId: string, editsJson: string, expectedVersion: number): { sequence: number; version: number } {
+    /** Appends a set of branch assignments / pick edits as the next in sequence, tied to the current pick set. */
+    addBranchEdits(surveyId: string, editsJson: string, expectedVersion: number): { sequence: number; pickSetId: number | null; version: number } {
       return addEdits(surveyId, editsJson, expectedVersion);
     },
 

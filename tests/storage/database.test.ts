@@ -97,3 +97,25 @@ describe('applyMigrations', () => {
     expect(() => applyMigrations(db, misnumbered)).toThrow(/number 2 but stands at position 1/);
   });
 });
+
+describe('migration 2 (branch edits belong to pick sets)', () => {
+  it('gives edits stored under schema 1 the newest pick set created at or before them', () => {
+    const file = temp.newFile();
+    const raw = new BetterSqlite3(file);
+    raw.pragma('journal_mode = WAL');
+    applyMigrations(raw, MIGRATIONS.slice(0, 1));
+    raw.exec(`
+      INSERT INTO surveys (id, name, description, display_scale, version, created_at, updated_at) VALUES ('s1', 'Line', '', 'engineering', 4, 't0', 't3');
+      INSERT INTO pick_sets (id, survey_id, upload_id, pick_set_json, created_at) VALUES (10, 's1', NULL, '{}', '2026-01-01T00:00:00.000Z');
+      INSERT INTO branch_edits (survey_id, sequence, edits_json, created_at) VALUES ('s1', 1, '[]', '2026-01-01T00:00:01.000Z');
+      INSERT INTO pick_sets (id, survey_id, upload_id, pick_set_json, created_at) VALUES (11, 's1', NULL, '{}', '2026-01-01T00:00:02.000Z');
+      INSERT INTO branch_edits (survey_id, sequence, edits_json, created_at) VALUES ('s1', 2, '[]', '2026-01-01T00:00:03.000Z');
+    `);
+    raw.close();
+    const db = temp.open(file);
+    expect(db.prepare<[], [number, number]>('SELECT sequence, pick_set_id FROM branch_edits ORDER BY sequence').raw().all()).toEqual([
+      [1, 10],
+      [2, 11],
+    ]);
+  });
+});

@@ -227,14 +227,30 @@ describe('createSurveyStore: branch edits and revisions', () => {
   it('addBranchEdits numbers edits 1, 2, … raising the version; listBranchEdits returns them in order; stale edits are refused', () => {
     const { store } = newStore();
     const survey = store.createSurvey({ name: 'Line A', scale: 'engineering' });
-    expect(store.addBranchEdits(survey.id, '[{"pick":1,"branch":1}]', 1)).toEqual({ sequence: 1, version: 2 });
-    expect(store.addBranchEdits(survey.id, '[{"pick":7,"branch":2}]', 2)).toEqual({ sequence: 2, version: 3 });
+    expect(store.addBranchEdits(survey.id, '[{"pick":1,"branch":1}]', 1)).toEqual({ sequence: 1, pickSetId: null, version: 2 });
+    expect(store.addBranchEdits(survey.id, '[{"pick":7,"branch":2}]', 2)).toEqual({ sequence: 2, pickSetId: null, version: 3 });
     expect(thrownBy(() => store.addBranchEdits(survey.id, '[]', 2))).toMatchObject({ expectedVersion: 2, currentVersion: 3 });
     expect(thrownBy(() => store.addBranchEdits(survey.id, 'not json', 3))).toBeInstanceOf(InvalidRecordError);
     expect(store.listBranchEdits(survey.id).map((edit) => [edit.sequence, edit.editsJson])).toEqual([
       [1, '[{"pick":1,"branch":1}]'],
       [2, '[{"pick":7,"branch":2}]'],
     ]);
+  });
+
+  it('addBranchEdits ties each edit to the pick set current when it was made, even within one millisecond of a new upload', () => {
+    const { db } = newStore();
+    // A clock that never moves: the edit and the next upload share their creation time.
+    const frozen = createSurveyStore(db, { now: () => new Date('2026-12-02T00:00:00.000Z') });
+    const survey = frozen.createSurvey({ name: 'Line B', scale: 'engineering' });
+    const first = frozen.addPickUpload(survey.id, pickUpload(), 1);
+    const firstSet = frozen.getCurrentPickSet(survey.id);
+    const edit = frozen.addBranchEdits(survey.id, '[{"pickIndex":0,"assign":"exclude"}]', first.version);
+    expect(edit.pickSetId).toBe(firstSet.id);
+    frozen.addPickUpload(survey.id, pickUpload(), edit.version);
+    const secondSet = frozen.getCurrentPickSet(survey.id);
+    expect(secondSet.id).not.toBe(firstSet.id);
+    expect(frozen.listBranchEdits(survey.id).filter((entry) => entry.pickSetId === secondSet.id)).toEqual([]);
+    expect(frozen.listBranchEdits(survey.id).map((entry) => entry.pickSetId)).toEqual([firstSet.id]);
   });
 
   it('addRevision records the survey version without raising it; listRevisions omits the result; getRevision returns it', () => {
