@@ -11,7 +11,7 @@ import helmet from 'helmet';
 import { interpret } from '../lib/interpret.js';
 import { accessControl } from './auth.js';
 import { parseConfig, type ServerConfig, type ServerConfigInput } from './config.js';
-import { errorMiddleware, unknownRoute, type ErrorTranslator } from './errors.js';
+import { ApiError, errorMiddleware, unknownRoute, type ErrorTranslator } from './errors.js';
 import { createLogger, requestLogger, stderrSink, type LogSink } from './logging.js';
 import type { RouteContext } from './routes/context.js';
 import { healthRoutes } from './routes/health.js';
@@ -45,6 +45,32 @@ function defaultStore(config: ServerConfig): SurveyStore {
   return createSurveyStore(openDatabase(join(config.dataDir, DATABASE_FILE_NAME)));
 }
 
+/** Routes that take a file (CSV or multipart) rather than a JSON body. */
+const UPLOAD_ROUTES = [/^\/api\/surveys\/[^/]+\/picks\/?$/, /^\/api\/interpret\/?$/];
+
+/**
+ * A write that carries a body which is not JSON, on a route that takes JSON, is refused with 415
+ * instead of being read as "no options" (a form-encoded body would otherwise run with defaults).
+ */
+const jsonBodiesOnly: express.RequestHandler = (request, _response, next) => {
+  const hasBody = Number(request.get('content-length') ?? 0) > 0 || request.get('transfer-encoding') !== undefined;
+  if (!hasBody || request.method === 'GET' || request.method === 'HEAD' || UPLOAD_ROUTES.some((route) => route.test(request.path))) {
+    next();
+    return;
+  }
+  if (request.is('application/json')) {
+    next();
+    return;
+  }
+  next(
+    new ApiError({
+      code: 'body-not-json', status: 415,
+      message: `this route takes a JSON body, but the request sent ${request.get('content-type') ?? 'no content type'}; nothing was stored`,
+      fix: 'send the body as JSON with Content-Type: application/json',
+    }),
+  );
+};
+
 export function createApp(configInput: ServerConfigInput, deps: AppDeps = {}): Express {
   const config = parseConfig(configInput);
   const logger = createLogger(deps.logSink ?? stderrSink, deps.now);
@@ -63,6 +89,7 @@ export function createApp(configInput: ServerConfigInput, deps: AppDeps = {}): E
   app.use(requestLogger(logger));
   app.use(accessControl(config));
   app.use(express.json({ limit: config.jsonBodyLimit }));
+  app.use(jsonBodiesOnly);
 
   app.use(healthRoutes(context));
   app.use(serviceIndexRoutes(context));

@@ -122,6 +122,21 @@ export async function startServer(options: ServeOptions): Promise<RunningServer>
   }
   const app = createApp({ ...configInput, ...(accessToken ? { accessToken } : {}) }, { store });
   const server = createServer(app);
+  // Requests Node refuses before Express sees them (headers too large, a garbled request line) still
+  // get a JSON error body, like every other refusal of this service.
+  server.on('clientError', (error: NodeJS.ErrnoException, socket) => {
+    if (!socket.writable) return;
+    const status = error.code === 'HPE_HEADER_OVERFLOW' ? 431 : 400;
+    const body = JSON.stringify({
+      error: {
+        code: status === 431 ? 'headers-too-large' : 'request-malformed',
+        message: status === 431 ? 'the request headers (or URL) are larger than this server accepts' : 'the request could not be parsed as HTTP',
+        fix: status === 431 ? 'send a shorter URL and fewer or smaller headers' : 'send a well-formed HTTP/1.1 request',
+        details: {},
+      },
+    });
+    socket.end(`HTTP/1.1 ${status} ${status === 431 ? 'Request Header Fields Too Large' : 'Bad Request'}\r\ncontent-type: application/json; charset=utf-8\r\ncontent-length: ${Buffer.byteLength(body)}\r\nconnection: close\r\n\r\n${body}`);
+  });
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);
     server.listen(preliminary.port, preliminary.host, () => resolve());
