@@ -85,7 +85,10 @@ export function createApp(configInput: ServerConfigInput, deps: AppDeps = {}): E
   app.disable('x-powered-by');
   app.set('etag', false); // survey ETags are versions, set by the routes
   app.set('query parser', 'simple');
-  app.use(helmet());
+  // Security headers, less the two that assume HTTPS: the service runs over plain HTTP on an
+  // office network, where `upgrade-insecure-requests` would send the browser to an https:// that
+  // is not there, and HSTS means nothing.
+  app.use(helmet({ strictTransportSecurity: false, contentSecurityPolicy: { directives: { upgradeInsecureRequests: null } } }));
   app.use(requestLogger(logger));
   app.use(accessControl(config));
   app.use(express.json({ limit: config.jsonBodyLimit }));

@@ -38,6 +38,10 @@ describe('surveys API', () => {
     expect(response.headers.etag).toBe('"v1"');
     expect(response.headers['x-powered-by']).toBeUndefined();
     expect(response.headers['x-content-type-options']).toBe('nosniff');
+    // Plain HTTP on an office network: no HSTS, and no CSP upgrade of requests to an https:// that is not there.
+    expect(response.headers['strict-transport-security']).toBeUndefined();
+    expect(response.headers['content-security-policy']).toMatch(/default-src 'self'/);
+    expect(response.headers['content-security-policy']).not.toMatch(/upgrade-insecure-requests/);
   });
 
   it('when a survey is renamed with If-Match of its version, then the store has the new name at version 2', async () => {
