@@ -10,6 +10,7 @@ import express, { type Express } from 'express';
 import helmet from 'helmet';
 import { interpret } from '../lib/interpret.js';
 import { accessControl } from './auth.js';
+import { sameOrigin } from './same-origin.js';
 import { parseConfig, type ServerConfig, type ServerConfigInput } from './config.js';
 import { ApiError, errorMiddleware, unknownRoute, type ErrorTranslator } from './errors.js';
 import { createLogger, requestLogger, stderrSink, type LogSink } from './logging.js';
@@ -90,6 +91,7 @@ export function createApp(configInput: ServerConfigInput, deps: AppDeps = {}): E
   // is not there, and HSTS means nothing.
   app.use(helmet({ strictTransportSecurity: false, contentSecurityPolicy: { directives: { upgradeInsecureRequests: null } } }));
   app.use(requestLogger(logger));
+  app.use(sameOrigin(config.allowedHostNames));
   app.use(accessControl(config));
   app.use(express.json({ limit: config.jsonBodyLimit }));
   app.use(jsonBodiesOnly);

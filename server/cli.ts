@@ -25,7 +25,7 @@ import { formatSummary } from './summary.js';
 import { softwareVersion } from './version.js';
 import { startServer } from './serve.js';
 import { DATABASE_FILE_NAME } from './app.js';
-import { openDatabase } from './storage/database.js';
+import BetterSqlite3 from 'better-sqlite3';
 import { backupDatabase } from './storage/backup.js';
 
 const USAGE = `slopebreak — seismic-refraction interpretation
@@ -54,6 +54,7 @@ serve options:
   --token T              access token for writes from other machines (default: generated on first start)
   --lock-reads           require the token for reads from other machines too
   --samples DIR          load the pick tables in DIR as surveys when the database is empty
+  --host-name NAME       a DNS name colleagues use for this machine (repeatable); other names get 421
 `;
 
 class UsageError extends Error {}
@@ -145,6 +146,7 @@ function runServe(args: readonly string[]): void {
       token: { type: 'string' },
       'lock-reads': { type: 'boolean' },
       samples: { type: 'string' },
+      'host-name': { type: 'string', multiple: true },
     },
   });
   if (positionals.length > 0) throw new UsageError(`serve takes no file, got "${positionals[0]}"`);
@@ -157,6 +159,7 @@ function runServe(args: readonly string[]): void {
     ...(values.token ? { accessToken: values.token } : {}),
     lockReads: values['lock-reads'] ?? false,
     ...(values.samples ? { sampleFolder: values.samples } : {}),
+    ...(values['host-name'] ? { allowedHostNames: values['host-name'] } : {}),
   }).then(
     (running) => {
       process.stdout.write(`slopebreak ${softwareVersion()} is serving; open:\n${running.urls.map((url) => `  ${url}`).join('\n')}\n(Ctrl-C stops it after the requests in progress finish)\n`);
@@ -182,7 +185,8 @@ function runBackup(args: readonly string[]): void {
     process.exitCode = 1;
     return;
   }
-  const db = openDatabase(file);
+  // Read-only and without migrations: a backup must never change the live database it copies.
+  const db = new BetterSqlite3(file, { readonly: true, fileMustExist: true });
   backupDatabase(db, values.to).then(
     () => {
       db.close();

@@ -32,6 +32,10 @@ export const ConfigSchema = z.strictObject({
   maxFilesPerUpload: z.number().int().min(1).default(1),
   /** Largest JSON request body, in bytes; a larger one is refused with 413. */
   jsonBodyLimit: z.number().int().min(1).default(DEFAULT_JSON_BODY_LIMIT),
+  /** DNS names this machine answers to besides IP literals and `localhost` (requests naming another host get 421). */
+  allowedHostNames: z.array(z.string().min(1)).default([]),
+  /** Most picks one interpretation request may carry; a larger table is refused with 413 (keeps one request to seconds). */
+  maxInterpretPicks: z.number().int().min(3).default(100_000),
   /** Remote addresses that may write without the token (this machine by default). */
   trustedAddresses: z.array(z.string().min(1)).default([...LOOPBACK_ADDRESSES]),
 });

@@ -25,7 +25,8 @@ export function versionTag(version: number): string {
   return `"v${version}"`;
 }
 
-const IF_MATCH = /^(?:W\/)?"v([1-9][0-9]{0,8})"$/;
+/** One strong entity tag (RFC 9110 compares If-Match strongly, so a weak `W/` tag never matches). */
+const IF_MATCH = /^"v([1-9][0-9]{0,8})"$/;
 
 /**
  * The survey version a write was made against: from `If-Match: "v<n>"` or the body's `version`.
@@ -39,8 +40,8 @@ export function expectedVersion(request: Request, bodyVersion?: number): number 
     if (match === null) {
       throw new ApiError({
         code: 'if-match-invalid', status: 400,
-        message: `the If-Match header ${JSON.stringify(header)} is not a survey version tag`,
-        fix: 'send the ETag the survey was read with, such as If-Match: "v3"',
+        message: `the If-Match header ${JSON.stringify(header)} is not one strong survey version tag (weak W/ tags, lists and * are not accepted)`,
+        fix: 'send the one ETag the survey was read with, such as If-Match: "v3"',
       });
     }
     fromHeader = Number(match[1]);
@@ -77,4 +78,18 @@ export function problemsError(code: string, what: string, problems: readonly Pro
 /** Send a CSV text as a download. `fileName` must already be safe (built by the server, never from a request). */
 export function sendCsv(response: Response, fileName: string, csv: string): void {
   response.type('text/csv; charset=utf-8').attachment(fileName).send(csv);
+}
+
+/**
+ * Refuses (413) an interpretation of more picks than `maxInterpretPicks`: one request runs on the
+ * service's single event loop, so its size is bounded to keep the service answering colleagues.
+ */
+export function limitInterpretSize(pickCount: number, maxInterpretPicks: number): void {
+  if (pickCount <= maxInterpretPicks) return;
+  throw new ApiError({
+    code: 'interpretation-too-large', status: 413,
+    message: `the pick table holds ${pickCount} picks; this service interprets at most ${maxInterpretPicks} in one request; nothing was stored`,
+    fix: 'interpret it with the command line (slopebreak interpret FILE), split it by shot, or ask the operator to raise maxInterpretPicks',
+    details: { pickCount, maxInterpretPicks },
+  });
 }

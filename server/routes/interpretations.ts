@@ -10,7 +10,7 @@ import { quoteCsvField, readPickTable } from '../../lib/picks/index.js';
 import { parseRequest } from '../errors.js';
 import type { RevisionSummary } from '../storage/survey-store.js';
 import { receivedFile, receiveUpload, recogniseUpload, sanitiseFileName } from '../uploads.js';
-import { expectedVersion, problemsError, RevisionParams, sendCsv, surveyId } from './common.js';
+import { expectedVersion, limitInterpretSize, problemsError, RevisionParams, sendCsv, surveyId } from './common.js';
 import type { RouteContext } from './context.js';
 import { currentPicks } from './current-picks.js';
 import { interpretAndStore } from '../revisions.js';
@@ -57,6 +57,7 @@ export function interpretationRoutes(context: RouteContext): Router {
     const survey = store.getSurvey(id);
     const version = request.get('if-match') === undefined ? survey.version : expectedVersion(request);
     const picks = currentPicks(store, id);
+    limitInterpretSize(picks.pickSet.picks.length, config.maxInterpretPicks);
     const chosen = { ...options, scale: options.scale ?? survey.scale };
     const { revision, result } = interpretAndStore(store, id, picks.pickSet, chosen, meta(survey.name), version);
     response.status(201).location(`/api/surveys/${id}/revisions/${revision.number}`).json({ ...revisionJson(revision), result });
@@ -84,6 +85,7 @@ export function interpretationRoutes(context: RouteContext): Router {
     recogniseUpload(file, ['pick-table']);
     const outcome = readPickTable(file.bytes, { maxBytes: config.maxUploadBytes });
     if (!outcome.ok) throw problemsError('pick-table-refused', `the pick table ${JSON.stringify(sanitiseFileName(file.fileName))}`, outcome.problems);
+    limitInterpretSize(outcome.value.picks.length, config.maxInterpretPicks);
     response.json(run(outcome.value, options, sanitiseFileName(file.fileName)));
   });
 

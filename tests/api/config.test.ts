@@ -6,6 +6,7 @@ describe('parseConfig', () => {
     expect(parseConfig({ dataDir: 'data' })).toEqual({
       host: '127.0.0.1', port: 8080, dataDir: 'data', lockReads: false,
       maxUploadBytes: DEFAULT_MAX_UPLOAD_BYTES, maxFilesPerUpload: 1, jsonBodyLimit: DEFAULT_JSON_BODY_LIMIT,
+      allowedHostNames: [], maxInterpretPicks: 100_000,
       trustedAddresses: ['127.0.0.1', '::1', '::ffff:127.0.0.1'],
     });
     expect(DEFAULT_MAX_UPLOAD_BYTES).toBe(50 * 1024 * 1024);

@@ -9,7 +9,9 @@ import { existsSync, mkdtempSync, readdirSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { accessTokenFor, isLoopbackHost, serverUrls, TOKEN_FILE_NAME } from '../../server/serve.js';
-import { openDatabase } from '../../server/storage/database.js';
+import BetterSqlite3 from 'better-sqlite3';
+import { applyMigrations, openDatabase } from '../../server/storage/database.js';
+import { MIGRATIONS } from '../../server/storage/migrations.js';
 import { createSurveyStore } from '../../server/storage/survey-store.js';
 
 const CLI = join('dist', 'server', 'cli.js');
@@ -102,6 +104,23 @@ describe('slopebreak backup', () => {
     const missing = spawnSync(process.execPath, [CLI, 'backup', '--data', join(data, 'nowhere'), '--to', join(data, 'x.sqlite')], { encoding: 'utf8', timeout: 20_000 });
     expect(missing.status).toBe(1);
     expect(missing.stderr).toMatch(/no database at/);
+  });
+});
+
+describe('slopebreak backup leaves the live database alone', () => {
+  it('when the database is at an older schema, then the backup copies it without migrating it', () => {
+    const data = mkdtempSync(join(tmpdir(), 'slopebreak-backup-'));
+    const raw = new BetterSqlite3(join(data, 'slopebreak.sqlite'));
+    raw.pragma('journal_mode = WAL');
+    applyMigrations(raw, MIGRATIONS.slice(0, 1));
+    raw.close();
+    const copy = join(data, 'copy.sqlite');
+    const run = spawnSync(process.execPath, [CLI, 'backup', '--data', data, '--to', copy], { encoding: 'utf8', timeout: 20_000 });
+    expect(run.status).toBe(0);
+    const check = new BetterSqlite3(join(data, 'slopebreak.sqlite'), { readonly: true });
+    expect(check.prepare('SELECT max(version) FROM schema_migrations').pluck().get()).toBe(1);
+    check.close();
+    expect(existsSync(copy)).toBe(true);
   });
 });
 
