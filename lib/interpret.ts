@@ -19,6 +19,7 @@ import { definedOnly } from './defined-only.js';
 import { splitShotSides } from './branches/sides.js';
 import { segmentSide } from './branches/segment.js';
 import { segmentSideRobustly } from './branches/robust-segment.js';
+import { crossoverAmbiguity } from './branches/branch-constraints.js';
 import { interceptTimeDepths } from './depth/intercept-time.js';
 import { crossoverDistanceDepths, fittedCrossovers, observedCrossover } from './depth/crossover-distance.js';
 import { bootstrapInterceptTimeDepths, type BootstrapDepths } from './depth/bootstrap.js';
@@ -199,9 +200,7 @@ function depthsForSide(
     const upper = byIndex.get(k + 2);
     if (!lower || !upper || upper.firstOffset < lower.lastOffset) return null;
     const bracket = observedCrossover(lower.lastOffset, upper.firstOffset);
-    const scatter = Math.hypot(lower.fit.residualSD, upper.fit.residualSD) / Math.SQRT2;
-    const ambiguity = 2 * (scatter / Math.abs(lower.fit.slope - upper.fit.slope));
-    const halfZone = Number.isFinite(ambiguity) ? ambiguity : 0;
+    const halfZone = 2 * crossoverAmbiguity(lower.fit.residualSD, upper.fit.residualSD, lower.fit.slope - upper.fit.slope);
     return {
       distance: bracket.distance,
       variance: bracket.variance + halfZone ** 2 / 3,

@@ -7,6 +7,21 @@ import type { PickSet } from '../lib/picks/types.js';
 import type { Interpretation } from '../lib/interpretation/shape.js';
 import type { RevisionSummary, SurveyStore } from './storage/survey-store.js';
 
+export interface InterpretationMeta {
+  readonly sourceName: string;
+  readonly softwareVersion: string;
+  readonly interpret?: typeof defaultInterpret;
+}
+
+/** The pipeline run as the service runs it: the request's options plus the source name and version. */
+export function runInterpretation(
+  pickSet: PickSet,
+  options: Omit<InterpretOptions, 'sourceName' | 'softwareVersion'>,
+  meta: InterpretationMeta,
+): Interpretation {
+  return (meta.interpret ?? defaultInterpret)(pickSet, { ...options, sourceName: meta.sourceName, softwareVersion: meta.softwareVersion });
+}
+
 export interface StoredInterpretation {
   readonly revision: RevisionSummary;
   readonly result: Interpretation;
@@ -22,10 +37,10 @@ export function interpretAndStore(
   surveyId: string,
   pickSet: PickSet,
   options: Omit<InterpretOptions, 'sourceName' | 'softwareVersion'>,
-  meta: { readonly sourceName: string; readonly softwareVersion: string; readonly interpret?: typeof defaultInterpret },
+  meta: InterpretationMeta,
   expectedVersion?: number,
 ): StoredInterpretation {
-  const result = (meta.interpret ?? defaultInterpret)(pickSet, { ...options, sourceName: meta.sourceName, softwareVersion: meta.softwareVersion });
+  const result = runInterpretation(pickSet, options, meta);
   const revision = store.addRevision(surveyId, { optionsJson: JSON.stringify(options), resultJson: JSON.stringify(result) }, expectedVersion);
   return { revision, result };
 }

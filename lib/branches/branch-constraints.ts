@@ -76,6 +76,17 @@ export interface SegmentLine {
 export const CROSSOVER_GAP_SE = 3;
 
 /**
+ * Half-width of the offset zone around a crossover in which two branches differ by less than the
+ * picks' scatter, m: σ_t/|s_k − s_{k+1}| with σ_t the RMS of the two branches' residual SDs. A pick
+ * in that zone may belong to either branch. 0 when the slownesses are equal (no crossover).
+ */
+export function crossoverAmbiguity(earlierResidualSD: number, laterResidualSD: number, slownessGap: number): number {
+  const scatter = Math.hypot(earlierResidualSD, laterResidualSD) / Math.SQRT2;
+  const ambiguity = scatter / Math.abs(slownessGap);
+  return Number.isFinite(ambiguity) ? ambiguity : 0;
+}
+
+/**
  * Uncertainty of where two branches cross, m: the standard error of the intersection of the two
  * independent lines by first-order propagation, combined in quadrature with the half-width of the
  * zone in which the lines differ by less than the picks' scatter, σ_t/|s_k − s_{k+1}| (a pick
@@ -88,8 +99,7 @@ export function crossoverStandardError(earlier: SegmentLine, later: SegmentLine)
     ((earlier.interceptVariance ?? 0) + (later.interceptVariance ?? 0)) / slownessGap ** 2 +
     (crossover * crossover * ((earlier.slopeVariance ?? 0) + (later.slopeVariance ?? 0))) / slownessGap ** 2 +
     (2 * crossover * ((earlier.covariance ?? 0) + (later.covariance ?? 0))) / slownessGap ** 2;
-  const scatter = Math.hypot(earlier.residualSD ?? 0, later.residualSD ?? 0) / Math.SQRT2;
-  const ambiguity = scatter / Math.abs(slownessGap);
+  const ambiguity = crossoverAmbiguity(earlier.residualSD ?? 0, later.residualSD ?? 0, slownessGap);
   return Math.sqrt(Math.max(0, variance) + ambiguity * ambiguity);
 }
 

@@ -20,20 +20,27 @@
  * unknown; a side with no branch keeps index 1.
  */
 import type { SideSegmentation } from '../branches/types.js';
-import { fitBranchMembers } from '../branches/branch-fit.js';
-import { directInterceptTest } from '../checks/branch-checks.js';
+import { directInterceptTest, type DirectInterceptTest } from '../checks/branch-checks.js';
+
+/** The origin test of the side's first branch when it is numbered 1 (null: no such branch, or its free line cannot be fitted). */
+function firstBranchTest(segmentation: SideSegmentation, timeResolution: number): { readonly numberedDirect: boolean; readonly test: DirectInterceptTest | null } {
+  const first = segmentation.branches[0];
+  if (!first || first.index !== 1) return { numberedDirect: false, test: null };
+  return { numberedDirect: true, test: directInterceptTest(segmentation.sidePicks, first.members, timeResolution) };
+}
 
 /** True when the first branch of the side passes through the time origin (`directInterceptTest`). */
 export function startsWithDirectWave(segmentation: SideSegmentation, timeResolution: number): boolean {
-  const first = segmentation.branches[0];
-  if (!first || first.index !== 1) return false;
-  return directInterceptTest(segmentation.sidePicks, first.members, timeResolution)?.passes ?? true;
+  const { numberedDirect, test } = firstBranchTest(segmentation, timeResolution);
+  return numberedDirect && (test?.passes ?? true);
 }
 
 /** The index the first branch of each side should carry, in input order. */
 export function firstBranchIndices(segmentations: readonly SideSegmentation[], timeResolution: number): number[] {
+  // One free-line fit per side serves both the origin test and, for a side that fails it, its slope.
+  const tests = segmentations.map((segmentation) => firstBranchTest(segmentation, timeResolution));
   const direct = segmentations.map(
-    (segmentation) => segmentation.assignedBy === 'user' || startsWithDirectWave(segmentation, timeResolution),
+    (segmentation, k) => segmentation.assignedBy === 'user' || (tests[k]!.numberedDirect && (tests[k]!.test?.passes ?? true)),
   );
   const referenceSums: number[] = [];
   const referenceCounts: number[] = [];
@@ -51,8 +58,7 @@ export function firstBranchIndices(segmentations: readonly SideSegmentation[], t
     if (direct[k] || !first) return first?.index ?? 1;
     if (reference.length === 0) return segmentation.assignedBy === 'user' ? first.index : 2;
     // The reported fit of a branch numbered 1 went through the origin; judge the free line instead.
-    const free = fitBranchMembers(segmentation.sidePicks, first.members, { method: 'least-squares', throughOrigin: false });
-    const slope = free.ok ? free.fit.slope : first.fit.slope;
+    const slope = tests[k]!.test?.slope ?? first.fit.slope;
     if (!(slope > 0)) return first.index;
     let best = 1;
     let bestDistance = Number.POSITIVE_INFINITY;

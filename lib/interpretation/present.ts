@@ -72,9 +72,17 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
     });
   });
 
+  // One pass each over the sides and the picks, not one per shot (surveys run to 10^5 picks and more).
+  const sidesByShot = new Map<string, SideResult[]>();
+  for (const side of result.sides) {
+    const shot = side.segmentation.sidePicks.shot;
+    sidesByShot.set(shot, [...(sidesByShot.get(shot) ?? []), side]);
+  }
+  const firstPickByShot = new Map<string, (typeof pickSet.picks)[number]>();
+  for (const pick of pickSet.picks) if (!firstPickByShot.has(pick.shot)) firstPickByShot.set(pick.shot, pick);
   const shots = pickSet.shotIds.map((id) => {
-    const sides = result.sides.filter((side) => side.segmentation.sidePicks.shot === id);
-    const first = pickSet.picks.find((pick) => pick.shot === id);
+    const sides = sidesByShot.get(id) ?? [];
+    const first = firstPickByShot.get(id);
     return {
       id,
       sourceX: distance(first?.sourceX ?? Number.NaN),

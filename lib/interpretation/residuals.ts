@@ -17,6 +17,8 @@ export interface ShotResidual {
   readonly pickCount: number;
   readonly rms: number | null;
   readonly reducedChiSquare: number | null;
+  /** RMS of the picks' sigmas, s, when every counted pick of the shot has one (what the RMS should be). */
+  readonly sigmaRms: number | null;
 }
 
 export interface ForwardResiduals {
@@ -38,8 +40,8 @@ export function forwardResiduals(pickSet: PickSet, model: LayeredModel | null): 
   const perPick = pickSet.picks.map((pick) =>
     model === null ? null : pick.time - modelTimeAt(model, Math.abs(pick.receiverX - pick.sourceX), pick.branch),
   );
-  const groups = new Map<string, { squares: number; count: number; chi: number; allSigma: boolean }>();
-  for (const shot of pickSet.shotIds) groups.set(shot, { squares: 0, count: 0, chi: 0, allSigma: true });
+  const groups = new Map<string, { squares: number; count: number; chi: number; sigmaSquares: number; allSigma: boolean }>();
+  for (const shot of pickSet.shotIds) groups.set(shot, { squares: 0, count: 0, chi: 0, sigmaSquares: 0, allSigma: true });
   let totalSquares = 0;
   let totalCount = 0;
   pickSet.picks.forEach((pick, k) => {
@@ -49,7 +51,10 @@ export function forwardResiduals(pickSet: PickSet, model: LayeredModel | null): 
     group.squares += residual * residual;
     group.count += 1;
     if (pick.sigma === null) group.allSigma = false;
-    else group.chi += (residual / pick.sigma) ** 2;
+    else {
+      group.chi += (residual / pick.sigma) ** 2;
+      group.sigmaSquares += pick.sigma * pick.sigma;
+    }
     totalSquares += residual * residual;
     totalCount += 1;
   });
@@ -60,6 +65,7 @@ export function forwardResiduals(pickSet: PickSet, model: LayeredModel | null): 
       pickCount: group.count,
       rms: model === null || group.count === 0 ? null : Math.sqrt(group.squares / group.count),
       reducedChiSquare: model === null || group.count === 0 || !group.allSigma ? null : group.chi / group.count,
+      sigmaRms: group.count === 0 || !group.allSigma ? null : Math.sqrt(group.sigmaSquares / group.count),
     };
   });
   return { perPick, perShot, overallRms: model === null || totalCount === 0 ? null : Math.sqrt(totalSquares / totalCount) };

@@ -4,7 +4,6 @@
  * `POST /api/interpret`, which takes a pick table and returns the interpretation, storing nothing.
  */
 import { Router } from 'express';
-import type { InterpretOptions } from '../../lib/interpret.js';
 import type { Interpretation } from '../../lib/interpretation/shape.js';
 import { quoteCsvField, readPickTable } from '../../lib/picks/index.js';
 import { parseRequest } from '../errors.js';
@@ -13,7 +12,7 @@ import { receivedFile, receiveUpload, recogniseUpload, sanitiseFileName } from '
 import { expectedVersion, limitInterpretSize, problemsError, RevisionParams, sendCsv, surveyId } from './common.js';
 import type { RouteContext } from './context.js';
 import { currentPicks } from './current-picks.js';
-import { interpretAndStore } from '../revisions.js';
+import { interpretAndStore, runInterpretation } from '../revisions.js';
 import { InterpretOptionsBody, InterpretOptionsQuery, type InterpretOptionsInput } from './interpret-options.js';
 
 function revisionJson(revision: RevisionSummary) {
@@ -45,10 +44,6 @@ export function layersCsv(result: Interpretation): string {
 export function interpretationRoutes(context: RouteContext): Router {
   const { store, config } = context;
   const router = Router();
-  const run = (pickSet: Parameters<RouteContext['interpret']>[0], options: InterpretOptionsInput, sourceName: string) => {
-    const settings: InterpretOptions = { ...options, sourceName, softwareVersion: context.softwareVersion };
-    return context.interpret(pickSet, settings);
-  };
   const meta = (sourceName: string) => ({ sourceName, softwareVersion: context.softwareVersion, interpret: context.interpret });
 
   router.post('/api/surveys/:id/interpretations', (request, response) => {
@@ -86,7 +81,7 @@ export function interpretationRoutes(context: RouteContext): Router {
     const outcome = readPickTable(file.bytes, { maxBytes: config.maxUploadBytes });
     if (!outcome.ok) throw problemsError('pick-table-refused', `the pick table ${JSON.stringify(sanitiseFileName(file.fileName))}`, outcome.problems);
     limitInterpretSize(outcome.value.picks.length, config.maxInterpretPicks);
-    response.json(run(outcome.value, options, sanitiseFileName(file.fileName)));
+    response.json(runInterpretation(outcome.value, options, meta(sanitiseFileName(file.fileName))));
   });
 
   return router;

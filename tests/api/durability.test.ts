@@ -7,20 +7,19 @@
  * any write that was refused, and hold each unanswered write either whole or not at all. Finally
  * the server is started again over the same folder and must serve and accept writes.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { isDeepStrictEqual } from 'node:util';
 import { afterEach, describe, expect, it } from 'vitest';
 import { DATABASE_FILE_NAME } from '../../server/app.js';
 import { openDatabase } from '../../server/storage/database.js';
 import { SMALL_PICK_TABLE } from './api-harness.js';
+import { startServeChild } from '../helpers/serve-child.js';
 import { errorOf, LOOPBACK_HOST, sendOverLoopback, type LoopbackReply } from './loopback-http.js';
 
-const CLI = fileURLToPath(new URL('../../dist/server/cli.js', import.meta.url));
 /** Surveys written at once: each gets its own chain of writes, so several requests are in flight at the kill. */
 const SURVEY_COUNT = 4;
 /** Planned writes per survey: 4 × 50 = 200 in the burst, far more than happen before the kill. */
@@ -83,28 +82,9 @@ function withTimeout<T>(promise: Promise<T>, ms: number, what: string): Promise<
 
 /** Starts `slopebreak serve` on a free loopback port over `dataDir` and waits for the URL it prints. */
 async function startChild(dataDir: string): Promise<RunningChild> {
-  if (!existsSync(CLI)) throw new Error('dist/server/cli.js is missing: run `npm run build` before this test');
-  const child = spawn(process.execPath, [CLI, 'serve', '--host', LOOPBACK_HOST, '--port', '0', '--data', dataDir], { stdio: ['ignore', 'pipe', 'pipe'] });
-  children.push(child);
-  let stdout = '';
-  let stderr = '';
-  child.stderr!.on('data', (chunk: Buffer) => {
-    stderr = (stderr + chunk.toString('utf8')).slice(-20_000); // request logs: keep the tail, keep the pipe drained
-  });
-  const exited = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => child.once('exit', (code, signal) => resolve({ code, signal })));
-  const port = await withTimeout(
-    new Promise<number>((resolve, reject) => {
-      child.stdout!.on('data', (chunk: Buffer) => {
-        stdout += chunk.toString('utf8');
-        const match = /open:\n {2}http:\/\/127\.0\.0\.1:(\d+)\//.exec(stdout);
-        if (match) resolve(Number(match[1]));
-      });
-      void exited.then(({ code, signal }) => reject(new Error(`the server exited (code ${code}, signal ${signal}) before printing its URL: ${stderr}`)));
-    }),
-    START_TIMEOUT_MS,
-    'the server printing its URL',
-  );
-  return { child, port, exited, stderr: () => stderr };
+  const started = await startServeChild(['--host', LOOPBACK_HOST, '--port', '0', '--data', dataDir], START_TIMEOUT_MS);
+  children.push(started.child);
+  return { child: started.child, port: started.port, exited: started.exited, stderr: started.output };
 }
 
 /** The upload of step `step` of survey `surveyIndex`: the same three picks, a comment line making the bytes unique. */

@@ -3,7 +3,6 @@ import request from 'supertest';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { readPickTable } from '../../lib/picks/index.js';
 import type { PickSet } from '../../lib/picks/types.js';
-import { NotFoundError } from '../../server/storage/errors.js';
 import { openHarness, rowCount, sampleSurvey, SMALL_PICK_TABLE, type Harness } from './api-harness.js';
 
 /** Times go out through the CSV writer and back through the reader: equal to within float rounding (1e-12 s). */

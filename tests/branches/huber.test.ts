@@ -169,7 +169,6 @@ const SHORT_BRANCH = [30, 42, 54, 66, 78];
 const LONG_BRANCH = Array.from({ length: 12 }, (_, index) => 30 + 6 * index);
 /** One-SD pick uncertainty of the synthetic picks, s (the sample surveys' 0.3 ms). */
 const PICK_SIGMA = 0.3e-3;
-const TRUE_SLOWNESS = 1 / 2000;
 
 /** Ray-geometry times plus seeded Gaussian noise of `noiseSD` (one value, or one per pick). */
 function rayPicks(offsets: readonly number[], noiseSD: number | readonly number[], seed: number): number[] {

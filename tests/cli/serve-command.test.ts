@@ -4,7 +4,8 @@
  * and `slopebreak backup`. All traffic goes to 127.0.0.1 only, in bounded waits.
  */
 import { describe, expect, it } from 'vitest';
-import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { spawnSync, type ChildProcess } from 'node:child_process';
+import { CLI, startServeChild } from '../helpers/serve-child.js';
 import { existsSync, mkdtempSync, readdirSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -14,31 +15,10 @@ import { applyMigrations, openDatabase } from '../../server/storage/database.js'
 import { MIGRATIONS } from '../../server/storage/migrations.js';
 import { createSurveyStore } from '../../server/storage/survey-store.js';
 
-const CLI = join('dist', 'server', 'cli.js');
+
 
 /** Start `serve` and resolve with the child and its first URL once it says where it listens. */
-function startServe(args: string[]): Promise<{ child: ChildProcess; url: string; output: () => string }> {
-  const child = spawn(process.execPath, [CLI, 'serve', ...args], { stdio: ['ignore', 'pipe', 'pipe'] });
-  let text = '';
-  child.stdout!.on('data', (chunk: Buffer) => (text += chunk.toString()));
-  child.stderr!.on('data', (chunk: Buffer) => (text += chunk.toString()));
-  return new Promise((resolve, reject) => {
-    const timer = setTimeout(() => reject(new Error(`serve did not start: ${text}`)), 15_000);
-    const poll = setInterval(() => {
-      const match = /open:\n\s+(http:\/\/\S+)/.exec(text);
-      if (match) {
-        clearInterval(poll);
-        clearTimeout(timer);
-        resolve({ child, url: match[1]!, output: () => text });
-      }
-    }, 50);
-    child.once('exit', (code) => {
-      clearInterval(poll);
-      clearTimeout(timer);
-      reject(new Error(`serve exited with ${code}: ${text}`));
-    });
-  });
-}
+const startServe = (args: string[]) => startServeChild(args);
 
 function exited(child: ChildProcess): Promise<number | null> {
   return new Promise((resolve) => child.once('exit', (code) => resolve(code)));
