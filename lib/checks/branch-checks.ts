@@ -7,8 +7,9 @@
  * the likely cause, the fix.
  */
 import type { Branch, Side, SidePicks } from '../branches/types.js';
-import { fitLine } from '../branches/line-fit.js';
+import { fitBranchMembers } from '../branches/branch-fit.js';
 import { chiSquareSurvival } from '../stats/chi-square.js';
+import { maximum } from '../stats/extent.js';
 import { normalQuantile } from '../branches/normal.js';
 import { studentTQuantile } from '../branches/student-t.js';
 import type { InterpretationWarning } from './warning.js';
@@ -45,6 +46,8 @@ export interface DirectInterceptTest {
   /** Free-line intercept, s, and its SE. */
   readonly intercept: number;
   readonly interceptSE: number;
+  /** Slope of the free line, s/m (what the branch's velocity is when not forced through the origin). */
+  readonly slope: number;
   /** |intercept| may reach this before the branch is said to miss the origin, s. */
   readonly allowed: number;
   readonly passes: boolean;
@@ -57,15 +60,12 @@ export interface DirectInterceptTest {
  * a difference no seismograph resolves. Returns null when the free line cannot be fitted.
  */
 export function directInterceptTest(sidePicks: SidePicks, members: readonly number[], timeResolution: number): DirectInterceptTest | null {
-  const offsets = members.map((position) => sidePicks.offsets[position] ?? Number.NaN);
-  const times = members.map((position) => sidePicks.times[position] ?? Number.NaN);
-  const sigmas = sidePicks.sigmas ? members.map((position) => sidePicks.sigmas?.[position] ?? Number.NaN) : null;
-  const outcome = fitLine(offsets, times, sigmas, { method: 'least-squares', throughOrigin: false });
+  const outcome = fitBranchMembers(sidePicks, members, { method: 'least-squares', throughOrigin: false });
   if (!outcome.ok) return null;
-  const { intercept, interceptSE, degreesOfFreedom, weighted } = outcome.fit;
+  const { intercept, interceptSE, degreesOfFreedom, weighted, slope } = outcome.fit;
   const quantile = weighted || degreesOfFreedom < 1 ? normalQuantile((1 + DIRECT_ORIGIN_PROBABILITY) / 2) : studentTQuantile((1 + DIRECT_ORIGIN_PROBABILITY) / 2, degreesOfFreedom);
   const allowed = Math.max(quantile * interceptSE, timeResolution);
-  return { intercept, interceptSE, allowed, passes: Math.abs(intercept) <= allowed };
+  return { intercept, interceptSE, slope, allowed, passes: Math.abs(intercept) <= allowed };
 }
 
 function where(context: BranchContext): string {
@@ -138,7 +138,7 @@ export function quadraticTermT(offsets: readonly number[], times: readonly numbe
   const count = offsets.length;
   if (count < 4) return null;
   const mean = offsets.reduce((sum, value) => sum + value, 0) / count;
-  const spread = Math.max(...offsets.map((value) => Math.abs(value - mean)));
+  const spread = maximum(offsets.map((value) => Math.abs(value - mean)));
   if (!(spread > 0)) return null;
   const u = offsets.map((value) => (value - mean) / spread);
   // Normal equations for [1, u, u²].

@@ -24,6 +24,7 @@ import { hiddenLayerWarnings } from '../checks/hidden-layer.js';
 import { WATER_TABLE_BAND } from '../checks/branch-checks.js';
 import { describeShotSide, formatQuantity } from '../checks/wording.js';
 import { picksLeftOutOfSides } from '../branches/sides.js';
+import { maximum, minimum } from '../stats/extent.js';
 
 /** Probability below which shot sides are called inconsistent (the χ² test of METHODS §3, P < 0.01). */
 export const LATERAL_VARIATION_PROBABILITY = 0.01;
@@ -173,7 +174,7 @@ function correctionWarnings({ pickSet }: SurveyCheckInput): InterpretationWarnin
   }
   const elevations = pickSet.picks.map((pick) => [pick.sourceElevation, pick.receiverElevation]).flat().filter((value): value is number => value !== null);
   if (elevations.length > 0) {
-    const relief = Math.max(...elevations) - Math.min(...elevations);
+    const relief = maximum(elevations) - minimum(elevations);
     if (relief > 0) {
       warnings.push({
         code: 'corrections-not-applied',
@@ -245,7 +246,10 @@ function hiddenLayerSurveyWarnings({ model, combined }: SurveyCheckInput): Inter
 function spreadWarnings({ pickSet, model }: SurveyCheckInput): InterpretationWarning[] {
   if (!model || model.thicknesses.length === 0) return [];
   const deepest = model.thicknesses.reduce((sum, thickness) => sum + thickness, 0);
-  const longest = Math.max(0, ...pickSet.picks.filter((pick) => !pick.excluded).map((pick) => Math.abs(pick.receiverX - pick.sourceX)));
+  const longest = maximum(
+    pickSet.picks.filter((pick) => !pick.excluded).map((pick) => Math.abs(pick.receiverX - pick.sourceX)),
+    0,
+  );
   return spreadTooShortWarnings(null, longest, deepest).map((warning) => ({ ...warning, layer: model.velocities.length }));
 }
 
@@ -273,19 +277,18 @@ function lateralVariationWarnings({ combined }: SurveyCheckInput): Interpretatio
 }
 
 /** Shots the survey model explains worse than 2 pick sigmas (or, without sigmas, 2 × the shot's own branch scatter). */
-function misfitWarnings({ pickSet, sides, residuals, timeResolution }: SurveyCheckInput): InterpretationWarning[] {
+function misfitWarnings({ sides, residuals, timeResolution }: SurveyCheckInput): InterpretationWarning[] {
   const warnings: InterpretationWarning[] = [];
+  // The largest branch scatter of each shot, in one pass over the sides.
+  const scatterByShot = new Map<string, number>();
+  for (const side of sides) {
+    const { shot } = side.segmentation.sidePicks;
+    const largest = maximum(side.segmentation.branches.map((branch) => branch.fit.residualSD).filter(Number.isFinite), timeResolution);
+    scatterByShot.set(shot, Math.max(scatterByShot.get(shot) ?? timeResolution, largest));
+  }
   for (const entry of residuals.perShot) {
     if (entry.rms === null) continue;
-    const sigmas = pickSet.picks.filter((pick) => pick.shot === entry.shot && !pick.excluded && pick.sigma !== null).map((pick) => pick.sigma!);
-    const scatter = sides
-      .filter((side) => side.segmentation.sidePicks.shot === entry.shot)
-      .flatMap((side) => side.segmentation.branches.map((branch) => branch.fit.residualSD))
-      .filter((value) => Number.isFinite(value));
-    const reference =
-      sigmas.length === entry.pickCount && sigmas.length > 0
-        ? Math.sqrt(sigmas.reduce((sum, sigma) => sum + sigma * sigma, 0) / sigmas.length)
-        : Math.max(timeResolution, scatter.length > 0 ? Math.max(...scatter) : timeResolution);
+    const reference = entry.sigmaRms ?? Math.max(timeResolution, scatterByShot.get(entry.shot) ?? timeResolution);
     if (entry.rms <= MISFIT_SIGMAS * reference) continue;
     warnings.push({
       code: 'model-misfit',

@@ -104,4 +104,13 @@ describe('interpret at the edges', () => {
     const result = run(rows);
     expect(result.warnings.some((warning) => warning.code === 'water-table-suspected' && warning.layer === 2 && warning.shot === undefined)).toBe(true);
   });
+
+  it('a survey of 150,000 picks (more than a spread argument list holds) is interpreted without overflowing the stack', () => {
+    const model = { velocities: [500, 2000, 4000], thicknesses: [5, 10] };
+    const rows: Row[] = [];
+    for (let shot = 0; shot < 150; shot += 1) rows.push(...arrivals(`S${shot}`, shot * 6.7, range(1000, 0, 1), model.velocities, model.thicknesses));
+    expect(rows.length).toBeGreaterThan(100_000);
+    const result = run(rows);
+    expect(result.layers.map((layer) => Math.round(layer.velocity))).toEqual([500, 2000, 4000]);
+  });
 });
