@@ -92,27 +92,34 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
     };
   });
 
-  const refractors: RefractorResult[] = combined.depths.map((_, k) => ({
-    interface: k + 1,
-    method: 'intercept-time method under each shot side (plane horizontal layers)',
-    references: DEPTH_REFERENCES,
-    points: result.sides.flatMap((side) => {
-      const depths = side.interceptTime;
-      if (!depths || depths.depths[k] === undefined) return [];
-      const { sidePicks } = side.segmentation;
-      const elevation = pickSet.picks[sidePicks.pickIndices[0] ?? -1]?.sourceElevation ?? null;
-      return [
-        {
-          x: distance(sidePicks.sourceX),
-          depth: distance(depths.depths[k]!),
-          depthSE: distance(depths.depthSE[k] ?? Number.NaN),
-          elevation: elevation === null ? null : distance(elevation - depths.depths[k]!),
-          shot: sidePicks.shot,
-          side: sidePicks.side,
-        },
-      ];
-    }),
-  }));
+  /** Depth under each shot side by one per-side method, as one refractor entry per interface. */
+  const refractorsBy = (method: string, depthsOf: (side: SideResult) => LayerDepths | null): RefractorResult[] =>
+    combined.depths.map((_, k) => ({
+      interface: k + 1,
+      method,
+      references: DEPTH_REFERENCES,
+      points: result.sides.flatMap((side) => {
+        const depths = depthsOf(side);
+        const depth = depths?.depths[k];
+        if (!depths || depth === undefined) return [];
+        const { sidePicks } = side.segmentation;
+        const elevation = pickSet.picks[sidePicks.pickIndices[0] ?? -1]?.sourceElevation ?? null;
+        return [
+          {
+            x: distance(sidePicks.sourceX),
+            depth: distance(depth),
+            depthSE: distance(depths.depthSE[k] ?? Number.NaN),
+            elevation: elevation === null ? null : distance(elevation - depth),
+            shot: sidePicks.shot,
+            side: sidePicks.side,
+          },
+        ];
+      }),
+    }));
+  const refractors: RefractorResult[] = [
+    ...refractorsBy('intercept-time method under each shot side (plane horizontal layers)', (side) => side.interceptTime),
+    ...refractorsBy('crossover-distance method under each shot side (plane horizontal layers)', (side) => side.crossoverDistance),
+  ].filter((refractor) => refractor.points.length > 0);
 
   const usedReferences = new Set<ReferenceKey>([
     ...VELOCITY_REFERENCES,

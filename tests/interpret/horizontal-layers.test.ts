@@ -107,6 +107,24 @@ describe('interpret on noisy horizontal-layer surveys (ray-geometry picks)', () 
     });
   }
 
+  it('lists refractors by the intercept-time and by the crossover-distance method, one point per shot side, near the stated depth', () => {
+    const result = run(syntheticSurvey(TWO_LAYER));
+    const methods = result.refractors.map((refractor) => refractor.method.split(' ')[0]);
+    expect(methods).toEqual(['intercept-time', 'crossover-distance']);
+    const sideCount = result.shots.reduce((count, shot) => count + shot.sides.length, 0);
+    for (const refractor of result.refractors) {
+      expect(refractor.interface).toBe(1);
+      expect(refractor.points).toHaveLength(sideCount);
+      for (const point of refractor.points) {
+        expectRelative(point.depth, TWO_LAYER.thicknesses[0]!, DEPTH_TOLERANCE, `${refractor.method}: shot ${point.shot} ${point.side} (stated model)`);
+        expect(point.depthSE).toBeGreaterThan(0);
+      }
+    }
+    const byCrossover = result.refractors[1]!.points.map((point) => point.depth);
+    const fromSides = result.shots.flatMap((shot) => shot.sides.map((side) => side.depths.crossoverDistance[0]!.depth));
+    expect(byCrossover).toEqual(fromSides);
+  });
+
   it('reports residuals of the picks against the forward model near the pick noise', () => {
     const result = run(syntheticSurvey(TWO_LAYER));
     // Noise is 0.3 ms; the survey model is an average, so allow twice that (ms, engineering units).
