@@ -15,6 +15,7 @@ import { parseConfig, type ServerConfig, type ServerConfigInput } from './config
 import { ApiError, errorMiddleware, unknownRoute, type ErrorTranslator } from './errors.js';
 import { createLogger, requestLogger, stderrSink, type LogSink } from './logging.js';
 import type { RouteContext } from './routes/context.js';
+import { clientRoutes } from './routes/client-pages.js';
 import { healthRoutes } from './routes/health.js';
 import { serviceIndexRoutes } from './routes/service-index.js';
 import { interpretationRoutes } from './routes/interpretations.js';
@@ -89,9 +90,16 @@ export function createApp(configInput: ServerConfigInput, deps: AppDeps = {}): E
   // Security headers, less the two that assume HTTPS: the service runs over plain HTTP on an
   // office network, where `upgrade-insecure-requests` would send the browser to an https:// that
   // is not there, and HSTS means nothing.
-  app.use(helmet({ strictTransportSecurity: false, contentSecurityPolicy: { directives: { upgradeInsecureRequests: null } } }));
+  // The client's plots make their PNG exports through blob: images, hence `img-src blob:`.
+  app.use(helmet({
+    strictTransportSecurity: false,
+    contentSecurityPolicy: { directives: { upgradeInsecureRequests: null, imgSrc: ["'self'", 'data:', 'blob:'] } },
+  }));
   app.use(requestLogger(logger));
   app.use(sameOrigin(config.allowedHostNames));
+  // The client's pages and files hold no survey data: served before the access check, so a locked
+  // server still shows its page, which then asks for the token.
+  app.use(clientRoutes(context));
   app.use(accessControl(config));
   app.use(express.json({ limit: config.jsonBodyLimit }));
   app.use(jsonBodiesOnly);

@@ -36,6 +36,8 @@ export const ConfigSchema = z.strictObject({
   allowedHostNames: z.array(z.string().min(1)).default([]),
   /** Most picks one interpretation request may carry; a larger table is refused with 413 (keeps one request to seconds). */
   maxInterpretPicks: z.number().int().min(3).default(100_000),
+  /** Folder of the built browser client (`npm run build:client`); default the build next to this server. */
+  clientDir: z.string().min(1).optional(),
   /** Remote addresses that may write without the token (this machine by default). */
   trustedAddresses: z.array(z.string().min(1)).default([...LOOPBACK_ADDRESSES]),
 });

@@ -20,6 +20,7 @@ import { networkInterfaces } from 'node:os';
 import { basename, join } from 'node:path';
 import { readPickTable } from '../lib/picks/index.js';
 import { createApp, DATABASE_FILE_NAME } from './app.js';
+import type { LogSink } from './logging.js';
 import { parseConfig, LOOPBACK_ADDRESSES, type ServerConfigInput } from './config.js';
 import { openDatabase } from './storage/database.js';
 import { createSurveyStore, type SurveyStore } from './storage/survey-store.js';
@@ -45,6 +46,8 @@ export interface ServeOptions extends ServerConfigInput {
   readonly say?: (line: string) => void;
   /** A folder of pick tables to load as surveys when the database holds none yet. */
   readonly sampleFolder?: string;
+  /** Where the request log lines go; default standard error. */
+  readonly logSink?: LogSink;
 }
 
 /**
@@ -108,7 +111,7 @@ export function serverUrls(host: string, port: number): string[] {
 
 export async function startServer(options: ServeOptions): Promise<RunningServer> {
   const say = options.say ?? ((line: string) => process.stdout.write(`${line}\n`));
-  const { say: _say, sampleFolder, ...configInput } = options;
+  const { say: _say, sampleFolder, logSink, ...configInput } = options;
   const preliminary = parseConfig(configInput);
   mkdirSync(preliminary.dataDir, { recursive: true });
   const accessToken = isLoopbackHost(preliminary.host)
@@ -120,7 +123,7 @@ export async function startServer(options: ServeOptions): Promise<RunningServer>
     const loaded = loadSampleSurveys(store, sampleFolder, say);
     if (loaded > 0) say(`Loaded ${loaded} sample survey(s) from ${sampleFolder}`);
   }
-  const app = createApp({ ...configInput, ...(accessToken ? { accessToken } : {}) }, { store });
+  const app = createApp({ ...configInput, ...(accessToken ? { accessToken } : {}) }, { store, ...(logSink ? { logSink } : {}) });
   const server = createServer(app);
   // Requests Node refuses before Express sees them (headers too large, a garbled request line) still
   // get a JSON error body, like every other refusal of this service.

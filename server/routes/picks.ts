@@ -48,6 +48,8 @@ export function pickRoutes(context: RouteContext): Router {
       version: stored.version,
       pickCount: outcome.value.picks.length,
       shotIds: outcome.value.shotIds,
+      /** engineering or crustal, from the table's units and extent: the scale to interpret it at. */
+      suggestedScale: outcome.value.suggestedScale,
       warnings: outcome.warnings,
     });
   });

@@ -1,0 +1,127 @@
+/**
+ * The client's only way to the server: JSON requests with the service's error shape turned into
+ * `ServiceError`, the survey version sent back as `If-Match`, the access token (when the operator
+ * gave one) sent as a bearer header, and uploads with progress.
+ */
+import type {
+  BranchEdit, CurrentPicks, Interpretation, Revision, RevisionSummary, Scale, Survey, TableProblem, UploadReply,
+} from './api-types.js';
+
+/** Where the access token is kept in this browser (set from the token dialog). */
+const TOKEN_KEY = 'slopebreak.accessToken';
+
+/** A refusal by the service: its stable code, message, fix and details, and the HTTP status. */
+export class ServiceError extends Error {
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    message: string,
+    readonly fix: string,
+    readonly details: Record<string, unknown>,
+  ) {
+    super(message);
+    this.name = 'ServiceError';
+  }
+
+  /** The reader's problems, when a pick table was refused (422). */
+  get problems(): readonly TableProblem[] {
+    const problems = this.details['problems'];
+    return Array.isArray(problems) ? (problems as TableProblem[]) : [];
+  }
+
+  /** True when the token is missing or wrong (the token dialog can fix it). */
+  get needsToken(): boolean {
+    return this.status === 401 || (this.status === 403 && this.code.startsWith('token'));
+  }
+}
+
+export function storedToken(): string | null {
+  try {
+    return localStorage.getItem(TOKEN_KEY);
+  } catch {
+    return null;
+  }
+}
+
+export function storeToken(token: string | null): void {
+  if (token === null || token.trim() === '') localStorage.removeItem(TOKEN_KEY);
+  else localStorage.setItem(TOKEN_KEY, token.trim());
+}
+
+function headers(extra: Record<string, string> = {}): Record<string, string> {
+  const token = storedToken();
+  return { Accept: 'application/json', ...(token ? { Authorization: `Bearer ${token}` } : {}), ...extra };
+}
+
+async function errorFrom(response: Response): Promise<ServiceError> {
+  const text = await response.text();
+  try {
+    const body = JSON.parse(text) as { error?: { code?: string; message?: string; fix?: string; details?: Record<string, unknown> } };
+    const error = body.error ?? {};
+    return new ServiceError(response.status, error.code ?? 'unknown', error.message ?? `the service answered ${response.status}`, error.fix ?? 'try again', error.details ?? {});
+  } catch {
+    return new ServiceError(response.status, 'not-json', `the service answered ${response.status} ${response.statusText}`, 'check that the server is running and try again', {});
+  }
+}
+
+async function request<T>(method: string, path: string, options: { body?: unknown; version?: number } = {}): Promise<T> {
+  let response: Response;
+  try {
+    response = await fetch(path, {
+      method,
+      headers: headers({
+        ...(options.body !== undefined ? { 'Content-Type': 'application/json' } : {}),
+        ...(options.version !== undefined ? { 'If-Match': `"v${options.version}"` } : {}),
+      }),
+      ...(options.body !== undefined ? { body: JSON.stringify(options.body) } : {}),
+    });
+  } catch {
+    throw new ServiceError(0, 'unreachable', 'the server did not answer', 'check that the slopebreak service is running and that this machine can reach it', {});
+  }
+  if (!response.ok) throw await errorFrom(response);
+  if (response.status === 204) return undefined as T;
+  return (await response.json()) as T;
+}
+
+const survey = (id: string) => `/api/surveys/${id}`;
+
+export const api = {
+  listSurveys: (name = '') => request<{ surveys: Survey[] }>('GET', `/api/surveys${name ? `?name=${encodeURIComponent(name)}` : ''}`).then((reply) => reply.surveys),
+  getSurvey: (id: string) => request<Survey>('GET', survey(id)),
+  createSurvey: (name: string, scale?: Scale) => request<Survey>('POST', '/api/surveys', { body: { name, ...(scale ? { scale } : {}) } }),
+  renameSurvey: (id: string, name: string, version: number) => request<Survey>('PATCH', survey(id), { body: { name }, version }),
+  deleteSurvey: (id: string, version: number) => request<void>('DELETE', survey(id), { version }),
+  listRevisions: (id: string) => request<{ revisions: RevisionSummary[] }>('GET', `${survey(id)}/revisions`).then((reply) => reply.revisions),
+  getRevision: (id: string, number: number) => request<Revision>('GET', `${survey(id)}/revisions/${number}`),
+  currentPicks: (id: string) => request<CurrentPicks>('GET', `${survey(id)}/picks`),
+  addBranchEdits: (id: string, edits: readonly BranchEdit[], version: number) =>
+    request<{ version: number }>('POST', `${survey(id)}/branch-edits`, { body: { edits }, version }),
+  interpret: (id: string, version: number, scale?: Scale) =>
+    request<Revision & { result: Interpretation }>('POST', `${survey(id)}/interpretations`, { body: scale ? { scale } : {}, version }),
+  layersCsvUrl: (id: string, number: number) => `${survey(id)}/revisions/${number}/layers.csv`,
+  picksCsvUrl: (id: string) => `${survey(id)}/picks.csv`,
+};
+
+/**
+ * Upload a pick table to a survey (multipart, If-Match the survey version), reporting progress as
+ * a fraction 0–1. XMLHttpRequest, because fetch reports no upload progress.
+ */
+export function uploadPicks(id: string, file: File, version: number, onProgress: (fraction: number) => void): Promise<UploadReply> {
+  return new Promise((resolve, reject) => {
+    const xhr = new XMLHttpRequest();
+    xhr.open('POST', `${survey(id)}/picks`);
+    for (const [name, value] of Object.entries(headers({ 'If-Match': `"v${version}"` }))) xhr.setRequestHeader(name, value);
+    xhr.upload.addEventListener('progress', (event) => {
+      if (event.lengthComputable) onProgress(event.loaded / event.total);
+    });
+    xhr.addEventListener('load', () => {
+      const response = new Response(xhr.responseText, { status: xhr.status, statusText: xhr.statusText });
+      if (xhr.status >= 200 && xhr.status < 300) resolve(JSON.parse(xhr.responseText) as UploadReply);
+      else void errorFrom(response).then(reject);
+    });
+    xhr.addEventListener('error', () => reject(new ServiceError(0, 'unreachable', 'the upload did not reach the server', 'check the connection and try again', {})));
+    const form = new FormData();
+    form.append('file', file, file.name);
+    xhr.send(form);
+  });
+}

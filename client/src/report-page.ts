@@ -1,0 +1,99 @@
+/**
+ * The printable report of one revision: survey, revision, software version, source and options;
+ * the travel-time plot and the depth section as images; the layer and shot tables; every warning;
+ * the cautions; the references. Laid out for A4 or Letter paper: "Print / save as PDF" gives a
+ * clean PDF from the browser's own print dialog.
+ */
+import { api } from './api.js';
+import type { Interpretation, Revision, Survey } from './api-types.js';
+import { depthFigure, refractorMethods } from './depth-figure.js';
+import { h, replaceChildren } from './dom.js';
+import { loadPlotly } from './plotly-loader.js';
+import { cautionList, layerTable, referenceList, shotTable, warningItem } from './results-view.js';
+import { paths } from './routes.js';
+import { travelTimeFigure } from './travel-time-figure.js';
+import type { Figure } from './travel-time-figure.js';
+
+/** Plot images are drawn at this size (px) and scaled to the page width. */
+const IMAGE_WIDTH = 1100;
+
+async function figureImage(figure: Figure, height: number, alt: string): Promise<HTMLImageElement> {
+  const Plotly = await loadPlotly();
+  const holder = h('div', { class: 'offscreen' });
+  document.body.append(holder);
+  try {
+    const layout = { ...figure.layout, width: IMAGE_WIDTH, height, dragmode: false };
+    await Plotly.newPlot(holder, figure.data as never, layout as never, { staticPlot: true } as never);
+    const url = await Plotly.toImage(holder, { format: 'png', width: IMAGE_WIDTH, height, scale: 2 } as never);
+    return h('img', { src: url, alt, class: 'report-figure', width: IMAGE_WIDTH, height });
+  } finally {
+    Plotly.purge(holder);
+    holder.remove();
+  }
+}
+
+function factsTable(survey: Survey, revision: Revision, latest: number): HTMLTableElement {
+  const result: Interpretation = revision.result;
+  const row = (name: string, value: string) => h('tr', {}, h('th', { scope: 'row' }, name), h('td', {}, value));
+  return h('table', { class: 'facts' },
+    h('tbody', {},
+      row('Survey', survey.name),
+      survey.description ? row('Description', survey.description) : null,
+      row('Revision', `${revision.number} of ${latest}${revision.number < latest ? ' (a newer revision exists)' : ''}, made ${new Date(revision.createdAt).toLocaleString()}`),
+      row('Pick table', result.source ?? '—'),
+      row('Data', `${result.summary.pickCount} picks, ${result.summary.shotCount} shots, ${result.summary.shotSideCount} shot sides, ${result.summary.excludedPickCount} excluded`),
+      row('Method', `branches by ${result.options.fitMethod} line fits; depths by the intercept-time and crossover-distance methods (plane layers under each shot side), combined over the survey${result.options.bootstrapReplicates > 0 ? `; bootstrap of ${result.options.bootstrapReplicates} replicates` : ''}`),
+      row('Units', `${result.units.distance}, ${result.units.time}, ${result.units.velocity}`),
+      row('Software', `${result.software.name} ${result.software.version}`),
+      row('Address', location.origin + paths.revision(survey.id, revision.number)),
+    ),
+  );
+}
+
+export async function renderReport(root: HTMLElement, surveyId: string, revisionNumber: number): Promise<void> {
+  document.body.classList.add('report-body');
+  replaceChildren(root, h('p', { class: 'status' }, 'Preparing the report…'));
+  try {
+    const [survey, revision, revisions, picks] = await Promise.all([
+      api.getSurvey(surveyId), api.getRevision(surveyId, revisionNumber), api.listRevisions(surveyId), api.currentPicks(surveyId).catch(() => null),
+    ]);
+    const result = revision.result;
+    const latest = revisions[revisions.length - 1]?.number ?? revision.number;
+    // Excluded picks are drawn only when the stored picks are the ones this revision was made from.
+    const storedPicks = picks !== null && picks.version === revision.surveyVersion ? picks.pickSet.picks : null;
+    const travel = travelTimeFigure(result, storedPicks, new Set(), { hiddenShots: new Set(), reductionVelocity: null, showLabels: true, dragMode: 'zoom', uiRevision: 'report' });
+    const method = refractorMethods(result)[0] ?? null;
+    const depth = depthFigure(result, storedPicks, method, 'depth', 'report');
+    const [travelImage, depthImage] = [
+      await figureImage({ ...travel, data: travel.data.map((trace) => ({ ...trace, type: trace['type'] === 'scattergl' ? 'scatter' : trace['type'] })) }, 640, 'Travel-time plot'),
+      await figureImage(depth, 460, 'Depth section'),
+    ];
+    document.title = `${survey.name}, revision ${revision.number}: slopebreak report`;
+    replaceChildren(root, h('article', { class: 'report', id: 'report' },
+      h('div', { class: 'report-actions no-print' },
+        h('button', { type: 'button', id: 'print-report', onclick: () => window.print() }, 'Print / save as PDF'),
+        h('a', { class: 'button-link', href: paths.revision(survey.id, revision.number) }, 'Back to the survey'),
+      ),
+      h('header', { class: 'report-head' },
+        h('p', { class: 'report-kicker' }, 'slopebreak · seismic refraction interpretation report'),
+        h('h1', {}, survey.name),
+        factsTable(survey, revision, latest),
+      ),
+      cautionList(result.cautions, 'report-cautions'),
+      h('section', { class: 'report-section' }, layerTable(result)),
+      h('section', { class: 'report-section' }, h('h2', {}, 'Travel times'), travelImage,
+        h('p', { class: 'plot-note' }, 'Picks by branch (colour and marker shape), fitted branch lines, fitted crossovers (ringed), residuals against the branch lines underneath.')),
+      h('section', { class: 'report-section page-break' }, h('h2', {}, 'Depth section'), depthImage,
+        h('p', { class: 'plot-note' }, `${method ?? 'No refractor depths'}; ±1 standard error. Dashed: the survey's combined layer tops.`)),
+      h('section', { class: 'report-section' }, shotTable(result)),
+      h('section', { class: 'report-section' }, h('h2', {}, 'Warnings'),
+        result.warnings.length > 0 ? h('ul', { class: 'warnings' }, ...result.warnings.map(warningItem)) : h('p', {}, 'None.')),
+      referenceList(result),
+      h('footer', { class: 'report-foot' }, `${result.software.name} ${result.software.version} · survey ${survey.name} · revision ${revision.number} · printed ${new Date().toLocaleString()}`),
+    ));
+    root.dataset['ready'] = 'true';
+  } catch (error) {
+    replaceChildren(root, h('p', { class: 'status important', role: 'alert' }, `The report could not be prepared: ${error instanceof Error ? error.message : String(error)}. `,
+      h('a', { href: '/' }, 'Back to the surveys')));
+  }
+}

@@ -1,0 +1,129 @@
+/**
+ * The interpretation in words and tables: the layer table (velocity, thickness, depth to top, each
+ * ± its standard error, and how each was obtained) with each layer's warnings under it; the shot
+ * table (branches with apparent velocity, intercept time and crossovers) with each shot's warnings
+ * beside it; the survey-wide warnings; the standing cautions; the references.
+ */
+import type { Interpretation, ShotResult, WarningResult } from './api-types.js';
+import { branchStyle } from './branch-style.js';
+import { h } from './dom.js';
+import { quantity, withError } from './format.js';
+
+const LEVEL_WORDS: Record<WarningResult['level'], string> = { caution: 'Caution', warning: 'Warning', info: 'Note' };
+
+export function warningItem(warning: WarningResult): HTMLLIElement {
+  const about = [
+    warning.shot ? `shot ${warning.shot}` : null,
+    warning.side ?? null,
+    warning.branch !== undefined ? `branch ${warning.branch}` : null,
+    warning.layer !== undefined ? `layer ${warning.layer}` : null,
+  ].filter(Boolean).join(' · ');
+  return h('li', { class: `warning level-${warning.level}`, 'data-code': warning.code },
+    h('span', { class: 'warning-level' }, LEVEL_WORDS[warning.level]),
+    about ? h('span', { class: 'warning-about' }, about) : null,
+    h('span', { class: 'warning-text' }, warning.message),
+  );
+}
+
+function warningList(warnings: readonly WarningResult[]): HTMLUListElement | null {
+  return warnings.length === 0 ? null : h('ul', { class: 'warnings' }, ...warnings.map(warningItem));
+}
+
+/** Branch number chip in its plot colour and marker shape name. */
+export function branchChip(index: number): HTMLSpanElement {
+  const style = branchStyle(index);
+  return h('span', { class: 'branch-chip', style: `--branch-color:${style.color}`, title: `branch ${index}: drawn as ${style.symbol}` }, String(index));
+}
+
+export function layerTable(result: Interpretation): HTMLTableElement {
+  const { units } = result;
+  const layerWarnings = (index: number) => result.warnings.filter((warning) => warning.layer === index && warning.shot === undefined);
+  const rows = result.layers.flatMap((layer) => {
+    const warnings = layerWarnings(layer.index);
+    const row = h('tr', { 'data-layer': layer.index },
+      h('th', { scope: 'row' }, branchChip(layer.index), ` ${layer.index}`),
+      h('td', { class: 'number' }, withError(layer.velocity, layer.velocitySE)),
+      h('td', { class: 'number' }, layer.thickness === null ? 'half-space' : withError(layer.thickness, layer.thicknessSE)),
+      h('td', { class: 'number' }, layer.index === 1 ? '0 (surface)' : withError(layer.depthToTop, layer.depthToTopSE)),
+      h('td', { class: 'method' }, h('span', {}, layer.velocityFrom.method), layer.index > 1 ? h('span', { class: 'method-depth' }, layer.depthFrom.method) : null),
+    );
+    return warnings.length > 0
+      ? [row, h('tr', { class: 'row-warnings' }, h('td', { colspan: 5 }, warningList(warnings)))]
+      : [row];
+  });
+  return h('table', { class: 'layer-table', 'aria-label': 'Layers' },
+    h('caption', {}, 'Layers (± one standard error)'),
+    h('thead', {}, h('tr', {},
+      h('th', { scope: 'col' }, 'Layer'),
+      h('th', { scope: 'col' }, `Velocity (${units.velocity})`),
+      h('th', { scope: 'col' }, `Thickness (${units.distance})`),
+      h('th', { scope: 'col' }, `Depth to top (${units.distance})`),
+      h('th', { scope: 'col' }, 'How it was obtained'),
+    )),
+    h('tbody', {}, ...rows),
+  );
+}
+
+function shotRows(result: Interpretation, shot: ShotResult): HTMLTableRowElement[] {
+  const { units } = result;
+  const rms = result.residuals.perShot.find((entry) => entry.shot === shot.id)?.rms ?? null;
+  const warnings = result.warnings.filter((warning) => warning.shot === shot.id);
+  const sides = shot.sides.map((side) => h('tr', { 'data-shot': shot.id, 'data-side': side.side },
+    h('th', { scope: 'row' }, `${shot.id}`, h('span', { class: 'side-name' }, ` ${side.side}`)),
+    h('td', { class: 'number' }, String(shot.sourceX)),
+    h('td', {}, h('ul', { class: 'branch-list' }, ...side.branches.map((branch) => h('li', {},
+      branchChip(branch.index),
+      ` ${quantity(branch.apparentVelocity, branch.apparentVelocitySE, units.velocity)}`,
+      branch.index > 1 ? `, tᵢ ${quantity(branch.interceptTime, branch.interceptTimeSE, units.time)}` : '',
+      h('span', { class: 'pick-count' }, ` (${branch.pickCount} picks${branch.assignedBy === 'user' ? ', assigned by hand' : ''})`),
+    )))),
+    h('td', {}, ...side.crossovers.map((crossover) => h('div', {},
+      `${crossover.lowerBranch}→${crossover.upperBranch}: ${quantity(crossover.fitted, crossover.fittedSE, units.distance)}`,
+    ))),
+  ));
+  const summary = h('tr', { class: 'row-warnings', 'data-shot-warnings': shot.id },
+    h('td', { colspan: 4 },
+      rms !== null ? h('span', { class: 'shot-rms' }, `RMS of picks against the layer model: ${withError(rms, null)} ${units.time}`) : null,
+      warningList(warnings),
+    ),
+  );
+  return [...sides, ...(warnings.length > 0 || rms !== null ? [summary] : [])];
+}
+
+export function shotTable(result: Interpretation): HTMLTableElement {
+  const { units } = result;
+  return h('table', { class: 'shot-table', 'aria-label': 'Shots and branches' },
+    h('caption', {}, 'Shots, branches and crossovers'),
+    h('thead', {}, h('tr', {},
+      h('th', { scope: 'col' }, 'Shot, side'),
+      h('th', { scope: 'col' }, `Source at (${units.distance})`),
+      h('th', { scope: 'col' }, 'Branches: apparent velocity, intercept time'),
+      h('th', { scope: 'col' }, 'Crossover distance'),
+    )),
+    h('tbody', {}, ...result.shots.flatMap((shot) => shotRows(result, shot))),
+  );
+}
+
+export function surveyWarnings(result: Interpretation): HTMLElement {
+  const general = result.warnings.filter((warning) => warning.shot === undefined && warning.layer === undefined);
+  const layerWide = result.warnings.filter((warning) => warning.shot === undefined && warning.layer !== undefined);
+  const all = [...general, ...layerWide.filter((warning) => !result.layers.some((layer) => layer.index === warning.layer))];
+  return h('section', { class: 'survey-warnings', 'aria-label': 'Survey warnings' },
+    h('h3', {}, 'Whole survey'),
+    all.length > 0 ? warningList(all) : h('p', { class: 'quiet' }, 'No survey-wide warnings. Warnings about single shots and layers are listed beside them.'),
+  );
+}
+
+export function cautionList(cautions: readonly string[], id = 'cautions'): HTMLElement {
+  return h('section', { class: 'cautions', id, 'aria-label': 'Cautions' },
+    h('h3', {}, 'Read before using these results'),
+    h('ul', {}, ...cautions.map((caution) => h('li', {}, caution))),
+  );
+}
+
+export function referenceList(result: Interpretation): HTMLElement {
+  return h('section', { class: 'references', 'aria-label': 'References' },
+    h('h3', {}, 'Methods and references'),
+    h('ul', {}, ...result.references.map((reference) => h('li', {}, h('span', { class: 'reference-key' }, reference.key), ' ', reference.citation))),
+  );
+}

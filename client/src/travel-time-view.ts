@@ -1,0 +1,387 @@
+/**
+ * The travel-time view: the plot (see travel-time-figure.ts) with its controls — what dragging
+ * does (zoom, pan, box or lasso selection), reduced time, labels, PNG export — the shots to show,
+ * and the branch-editing panel: assign the selected picks to a branch, exclude them, hand them
+ * back to the automatic split, select picks by shot and offset range from the keyboard, move a
+ * breakpoint, undo the last edit. Every edit goes through `hooks.applyEdits`, which stores it and
+ * re-interprets as a new revision.
+ *
+ * Keys (when focus is not in a text field): 1–9 assign the selection to that branch, X excludes,
+ * A hands back to automatic, Esc clears the selection, Ctrl+Z (⌘Z) undoes.
+ */
+import type { BranchEdit, Interpretation, StoredPick } from './api-types.js';
+import { assignmentEdits, breakpointEdits, breakpointsOf, placesByLine, type Assignment, type Breakpoint } from './branch-editing.js';
+import { h, replaceChildren } from './dom.js';
+import { plain } from './format.js';
+import { loadPlotly } from './plotly-loader.js';
+import { branchChip } from './results-view.js';
+import { travelTimeFigure, type TravelTimeOptions } from './travel-time-figure.js';
+
+export interface EditState {
+  /** Edits can be made (the latest revision of the current picks is shown). */
+  readonly editable: boolean;
+  /** Why not, when not, with a link to where they can. */
+  readonly reason?: string;
+  readonly latestPath?: string;
+}
+
+export interface TravelTimeHooks {
+  readonly applyEdits: (edits: BranchEdit[], description: string) => Promise<void>;
+  readonly undo: () => Promise<void>;
+  /** What undo would take back, or null when there is nothing to undo. */
+  readonly undoLabel: () => string | null;
+  readonly fileStem: () => string;
+}
+
+type DragMode = TravelTimeOptions['dragMode'];
+
+const DRAG_MODES: readonly { mode: DragMode; label: string; hint: string }[] = [
+  { mode: 'zoom', label: 'Zoom', hint: 'drag a rectangle to zoom; double-click to see everything' },
+  { mode: 'pan', label: 'Pan', hint: 'drag to move along the line' },
+  { mode: 'select', label: 'Box select', hint: 'drag a rectangle around picks to select them (Shift adds)' },
+  { mode: 'lasso', label: 'Lasso select', hint: 'draw around picks to select them (Shift adds)' },
+];
+
+export class TravelTimeView {
+  readonly element: HTMLElement;
+  private readonly plot: HTMLDivElement;
+  private readonly shotsPanel: HTMLElement;
+  private readonly editPanel: HTMLElement;
+  private readonly toolbar: HTMLElement;
+  private result: Interpretation | null = null;
+  private picks: readonly StoredPick[] | null = null;
+  private editState: EditState = { editable: false };
+  private uiRevision = '';
+  private readonly hiddenShots = new Set<string>();
+  private selection = new Set<number>();
+  private dragMode: DragMode = 'zoom';
+  private reductionVelocity: number | null = null;
+  private showLabels = true;
+  private busy = false;
+  private listening = false;
+  private drawing: Promise<void> = Promise.resolve();
+
+  constructor(private readonly hooks: TravelTimeHooks) {
+    this.plot = h('div', { class: 'plot travel-time-plot', id: 'travel-time-plot', role: 'img', 'aria-label': 'Travel-time plot: picks, fitted branch lines, crossovers and residuals' });
+    this.toolbar = h('div', { class: 'plot-toolbar', role: 'toolbar', 'aria-label': 'Travel-time plot controls' });
+    this.shotsPanel = h('section', { class: 'side-panel shots-panel', 'aria-label': 'Shots shown' });
+    this.editPanel = h('section', { class: 'side-panel edit-panel', id: 'edit-panel', 'aria-label': 'Branch editing' });
+    this.element = h('section', { class: 'view travel-time-view', id: 'travel-time-view' },
+      this.toolbar,
+      h('div', { class: 'view-body' }, h('div', { class: 'plot-frame' }, this.plot), h('div', { class: 'side-column' }, this.editPanel, this.shotsPanel)),
+    );
+    document.addEventListener('keydown', (event) => this.onKey(event));
+  }
+
+  /** Show an interpretation; `picks` are the stored picks (for excluded picks and editing). */
+  show(result: Interpretation, picks: readonly StoredPick[] | null, editState: EditState, uiRevision: string): Promise<void> {
+    const surveyChanged = uiRevision !== this.uiRevision;
+    this.result = result;
+    this.picks = picks;
+    this.editState = editState;
+    this.uiRevision = uiRevision;
+    if (surveyChanged) {
+      this.hiddenShots.clear();
+      this.reductionVelocity = null;
+    }
+    this.selection = new Set([...this.selection].filter((line) => picks?.some((pick) => pick.line === line)));
+    this.renderToolbar();
+    this.renderShots();
+    this.renderEditPanel();
+    return this.draw();
+  }
+
+  get visible(): boolean {
+    return this.element.isConnected && !this.element.hidden;
+  }
+
+  private renderToolbar(): void {
+    if (!this.result) return;
+    const { units } = this.result;
+    const modes = h('div', { class: 'segmented', role: 'group', 'aria-label': 'Dragging on the plot' },
+      ...DRAG_MODES.map(({ mode, label, hint }) => h('button', {
+        type: 'button', 'aria-pressed': String(mode === this.dragMode), title: hint, 'data-drag-mode': mode,
+        onclick: () => {
+          this.dragMode = mode;
+          this.renderToolbar();
+          void this.draw();
+        },
+      }, label)),
+    );
+    const typical = units.velocity === 'km/s' ? 8 : 3000;
+    const velocityInput = h('input', {
+      type: 'number', id: 'reduction-velocity', min: units.velocity === 'km/s' ? 0.1 : 50, step: 'any', value: String(this.reductionVelocity ?? typical),
+      disabled: this.reductionVelocity === null, 'aria-label': `Reduction velocity (${units.velocity})`, class: 'narrow',
+      onchange: () => {
+        const value = Number(velocityInput.value);
+        if (Number.isFinite(value) && value > 0) {
+          this.reductionVelocity = value;
+          void this.draw();
+        }
+      },
+    });
+    const reduced = h('label', { class: 'check' },
+      h('input', {
+        type: 'checkbox', id: 'reduced-time', checked: this.reductionVelocity !== null,
+        onchange: (event: Event) => {
+          const on = (event.target as HTMLInputElement).checked;
+          this.reductionVelocity = on ? Number(velocityInput.value) || typical : null;
+          velocityInput.disabled = !on;
+          void this.draw();
+        },
+      }),
+      ' Reduced time at ', velocityInput, ` ${units.velocity}`,
+    );
+    const labels = h('label', { class: 'check' },
+      h('input', { type: 'checkbox', id: 'branch-labels', checked: this.showLabels, onchange: (event: Event) => {
+        this.showLabels = (event.target as HTMLInputElement).checked;
+        void this.draw();
+      } }),
+      ' Velocity labels',
+    );
+    const png = h('button', { type: 'button', id: 'travel-time-png', onclick: () => void this.savePng() }, 'Save PNG');
+    const reset = h('button', { type: 'button', onclick: () => void this.resetZoom(), title: 'Show every pick' }, 'Whole line');
+    replaceChildren(this.toolbar, modes, reduced, labels, h('span', { class: 'toolbar-spacer' }), reset, png);
+  }
+
+  private renderShots(): void {
+    if (!this.result) return;
+    const result = this.result;
+    const rows = result.shots.map((shot) => {
+      const warnings = result.warnings.filter((warning) => warning.shot === shot.id && warning.level !== 'info').length;
+      const box = h('input', {
+        type: 'checkbox', checked: !this.hiddenShots.has(shot.id), 'data-shot-toggle': shot.id,
+        onchange: (event: Event) => {
+          if ((event.target as HTMLInputElement).checked) this.hiddenShots.delete(shot.id);
+          else this.hiddenShots.add(shot.id);
+          void this.draw();
+        },
+      });
+      return h('li', {}, h('label', { class: 'check' }, box, ` ${shot.id}`,
+        h('span', { class: 'quiet' }, ` at ${plain(shot.sourceX)} ${result.units.distance}`),
+        warnings > 0 ? h('span', { class: 'badge', title: `${warnings} warning(s) about this shot, listed in the shot table` }, `${warnings} ⚠`) : null,
+      ));
+    });
+    const all = (show: boolean) => () => {
+      this.hiddenShots.clear();
+      if (!show) for (const shot of result.shots) this.hiddenShots.add(shot.id);
+      this.renderShots();
+      void this.draw();
+    };
+    replaceChildren(this.shotsPanel,
+      h('h3', {}, 'Shots shown'),
+      h('div', { class: 'button-row' }, h('button', { type: 'button', onclick: all(true) }, 'All'), h('button', { type: 'button', onclick: all(false) }, 'None')),
+      h('ul', { class: 'shot-toggles' }, ...rows),
+    );
+  }
+
+  private branchNumbers(): number[] {
+    const highest = Math.max(1, ...(this.result?.shots.flatMap((shot) => shot.sides.flatMap((side) => side.branches.map((branch) => branch.index))) ?? [1]));
+    return Array.from({ length: Math.min(9, highest + 1) }, (_, k) => k + 1);
+  }
+
+  private renderEditPanel(): void {
+    const result = this.result;
+    if (!result) return;
+    if (!this.editState.editable) {
+      replaceChildren(this.editPanel, h('h3', {}, 'Branch editing'),
+        h('p', { class: 'quiet' }, this.editState.reason ?? 'Editing is not available.'),
+        this.editState.latestPath ? h('a', { href: this.editState.latestPath, 'data-nav': 'true' }, 'Open the latest revision') : null);
+      return;
+    }
+    const count = this.selection.size;
+    const disabled = count === 0 || this.busy;
+    const assignButton = (assign: Assignment, label: Node | string, title: string) =>
+      h('button', { type: 'button', disabled, title, 'data-assign': String(assign), onclick: () => void this.assignSelection(assign) }, label);
+    const branchButtons = this.branchNumbers().map((index) => assignButton(index, h('span', {}, branchChip(index), index === 1 ? ' direct' : ` head wave`), `Put the selected picks on branch ${index} (key ${index})`));
+    const undoLabel = this.hooks.undoLabel();
+    const undo = h('button', { type: 'button', id: 'undo-edit', disabled: undoLabel === null || this.busy, title: undoLabel ? `Undo: ${undoLabel} (Ctrl+Z)` : 'Nothing to undo', onclick: () => void this.runUndo() },
+      undoLabel ? `Undo ${undoLabel}` : 'Undo');
+
+    replaceChildren(this.editPanel,
+      h('h3', {}, 'Branch editing'),
+      h('p', { class: 'selection-count', id: 'selection-count', 'aria-live': 'polite' },
+        count === 0 ? 'No picks selected. Click picks, or use Box or Lasso select.' : `${count} pick${count === 1 ? '' : 's'} selected`,
+        count > 0 ? h('button', { type: 'button', class: 'link-button', onclick: () => this.setSelection(new Set()) }, 'clear') : null),
+      h('div', { class: 'assign-grid', role: 'group', 'aria-label': 'Put the selected picks on branch' }, ...branchButtons),
+      h('div', { class: 'button-row' },
+        assignButton('exclude', 'Exclude', 'Leave the selected picks out of every fit (key X)'),
+        assignButton('automatic', 'Back to automatic', 'Let the automatic split place the selected picks again (key A)'),
+      ),
+      h('div', { class: 'button-row' }, undo),
+      this.rangeForm(result),
+      this.breakpointForm(result),
+    );
+  }
+
+  /** Select picks by shot, side and offset range: the keyboard way to a selection. */
+  private rangeForm(result: Interpretation): HTMLElement {
+    const shot = h('select', { 'aria-label': 'Shot', id: 'range-shot' }, ...result.shots.map((entry) => h('option', { value: entry.id }, entry.id)));
+    const side = h('select', { 'aria-label': 'Side', id: 'range-side' }, h('option', { value: 'forward' }, 'forward'), h('option', { value: 'reverse' }, 'reverse'));
+    const from = h('input', { type: 'number', step: 'any', class: 'narrow', 'aria-label': `From offset (${result.units.distance})`, id: 'range-from', value: '0' });
+    const to = h('input', { type: 'number', step: 'any', class: 'narrow', 'aria-label': `To offset (${result.units.distance})`, id: 'range-to', value: '' });
+    const form = h('form', { class: 'range-form' },
+      h('h4', {}, 'Select by offset'),
+      h('div', { class: 'form-row' }, shot, side),
+      h('div', { class: 'form-row' }, 'from ', from, ' to ', to, ` ${result.units.distance}`),
+      h('button', { type: 'submit', disabled: this.busy }, 'Select'),
+    );
+    form.addEventListener('submit', (event) => {
+      event.preventDefault();
+      const low = from.value === '' ? -Infinity : Number(from.value);
+      const high = to.value === '' ? Infinity : Number(to.value);
+      const lines = new Set<number>();
+      for (const [line, place] of placesByLine(result)) {
+        if (place.shot === shot.value && place.side === side.value && place.offset >= low && place.offset <= high) lines.add(line);
+      }
+      this.setSelection(lines);
+    });
+    return form;
+  }
+
+  private breakpointForm(result: Interpretation): HTMLElement {
+    const breakpoints = breakpointsOf(result);
+    if (breakpoints.length === 0) return h('p', { class: 'quiet' }, 'No breakpoints: no side has two branches.');
+    const unit = result.units.distance;
+    const label = (point: Breakpoint) => `${point.shot} ${point.side}: ${point.lowerBranch}|${point.upperBranch} between ${plain(point.lastLowerOffset)} and ${plain(point.firstUpperOffset)} ${unit}`;
+    const choice = h('select', { id: 'breakpoint-choice', 'aria-label': 'Breakpoint' }, ...breakpoints.map((point, k) => h('option', { value: String(k) }, label(point))));
+    const offset = h('input', { type: 'number', step: 'any', class: 'narrow', id: 'breakpoint-offset', 'aria-label': `New breakpoint offset (${unit})` });
+    const suggest = () => {
+      const point = breakpoints[Number(choice.value)];
+      if (point) offset.value = String(Number(((point.lastLowerOffset + point.firstUpperOffset) / 2).toPrecision(6)));
+    };
+    choice.addEventListener('change', suggest);
+    suggest();
+    const form = h('form', { class: 'breakpoint-form' },
+      h('h4', {}, 'Move a breakpoint'),
+      choice,
+      h('div', { class: 'form-row' }, 'to offset ', offset, ` ${unit}`),
+      h('button', { type: 'submit', disabled: this.busy, id: 'breakpoint-move' }, 'Move'),
+    );
+    form.addEventListener('submit', (event) => {
+      event.preventDefault();
+      const point = breakpoints[Number(choice.value)];
+      const value = Number(offset.value);
+      if (!point || !this.picks || !Number.isFinite(value)) return;
+      const edits = breakpointEdits(result, this.picks, point, value);
+      void this.edit(edits, `breakpoint ${point.shot} ${point.side} ${point.lowerBranch}|${point.upperBranch} to ${plain(value)} ${unit}`);
+    });
+    return form;
+  }
+
+  private setSelection(lines: Set<number>): void {
+    this.selection = lines;
+    this.renderEditPanel();
+    void this.draw();
+  }
+
+  private async assignSelection(assign: Assignment): Promise<void> {
+    if (!this.result || !this.picks || this.selection.size === 0) return;
+    const edits = assignmentEdits(this.result, this.picks, this.selection, assign);
+    const what = assign === 'exclude' ? 'exclusion' : assign === 'automatic' ? 'return to automatic' : `move to branch ${assign}`;
+    await this.edit(edits, `${what} of ${this.selection.size} pick${this.selection.size === 1 ? '' : 's'}`);
+  }
+
+  private async edit(edits: BranchEdit[], description: string): Promise<void> {
+    if (this.busy) return;
+    this.busy = true;
+    this.renderEditPanel();
+    try {
+      await this.hooks.applyEdits(edits, description);
+      this.selection = new Set();
+    } finally {
+      this.busy = false;
+      this.renderEditPanel();
+    }
+  }
+
+  private async runUndo(): Promise<void> {
+    if (this.busy) return;
+    this.busy = true;
+    this.renderEditPanel();
+    try {
+      await this.hooks.undo();
+    } finally {
+      this.busy = false;
+      this.renderEditPanel();
+    }
+  }
+
+  private onKey(event: KeyboardEvent): void {
+    if (!this.visible || !this.editState.editable) return;
+    const target = event.target as HTMLElement | null;
+    if (target && (target.tagName === 'INPUT' || target.tagName === 'SELECT' || target.tagName === 'TEXTAREA')) return;
+    if ((event.ctrlKey || event.metaKey) && event.key.toLowerCase() === 'z') {
+      event.preventDefault();
+      void this.runUndo();
+    } else if (event.ctrlKey || event.metaKey || event.altKey) {
+      return;
+    } else if (/^[1-9]$/.test(event.key) && this.selection.size > 0) {
+      void this.assignSelection(Number(event.key));
+    } else if (event.key.toLowerCase() === 'x' && this.selection.size > 0) {
+      void this.assignSelection('exclude');
+    } else if (event.key.toLowerCase() === 'a' && this.selection.size > 0) {
+      void this.assignSelection('automatic');
+    } else if (event.key === 'Escape' && this.selection.size > 0) {
+      this.setSelection(new Set());
+    }
+  }
+
+  private options(): TravelTimeOptions {
+    return { hiddenShots: this.hiddenShots, reductionVelocity: this.reductionVelocity, showLabels: this.showLabels, dragMode: this.dragMode, uiRevision: this.uiRevision };
+  }
+
+  /** Draw (or redraw) the plot; draws are queued so that a fast sequence of changes ends in the last state. */
+  private draw(): Promise<void> {
+    this.drawing = this.drawing.then(() => this.drawNow()).catch((error: unknown) => {
+      replaceChildren(this.plot, h('p', { class: 'upload-refused' }, `The plot could not be drawn: ${error instanceof Error ? error.message : String(error)}`));
+    });
+    return this.drawing;
+  }
+
+  private async drawNow(): Promise<void> {
+    if (!this.result) return;
+    const Plotly = await loadPlotly();
+    const figure = travelTimeFigure(this.result, this.picks, this.selection, this.options());
+    this.plot.dataset['pointCount'] = String(figure.pointCount);
+    this.plot.dataset['webgl'] = String(figure.webgl);
+    const first = !this.plot.classList.contains('js-plotly-plot');
+    await Plotly.react(this.plot, figure.data as never, figure.layout as never, {
+      responsive: true, displaylogo: false, scrollZoom: true,
+      modeBarButtonsToRemove: ['toImage', 'select2d', 'lasso2d', 'zoom2d', 'pan2d'],
+    } as never);
+    if (first) this.listen();
+    this.plot.dataset['drawn'] = this.uiRevision + ':' + String(this.result.summary.pickCount) + ':' + String(Date.now());
+  }
+
+  private listen(): void {
+    if (this.listening) return;
+    this.listening = true;
+    const plot = this.plot as unknown as { on: (event: string, handler: (payload: unknown) => void) => void };
+    plot.on('plotly_selected', (payload) => {
+      const points = (payload as { points?: { customdata?: unknown }[] } | undefined)?.points ?? [];
+      const lines = new Set(points.map((point) => point.customdata).filter((line): line is number => typeof line === 'number'));
+      if (lines.size === 0) return;
+      this.setSelection(lines);
+    });
+    plot.on('plotly_deselect', () => this.setSelection(new Set()));
+    plot.on('plotly_click', (payload) => {
+      const point = (payload as { points?: { customdata?: unknown }[] }).points?.[0];
+      if (!point || typeof point.customdata !== 'number') return;
+      const next = new Set(this.selection);
+      if (next.has(point.customdata)) next.delete(point.customdata);
+      else next.add(point.customdata);
+      this.setSelection(next);
+    });
+  }
+
+  private async resetZoom(): Promise<void> {
+    const Plotly = await loadPlotly();
+    await Plotly.relayout(this.plot, { 'xaxis.autorange': true, 'yaxis.autorange': true, 'yaxis2.autorange': true } as never);
+  }
+
+  private async savePng(): Promise<void> {
+    const Plotly = await loadPlotly();
+    await Plotly.downloadImage(this.plot, { format: 'png', filename: `${this.hooks.fileStem()}-travel-times`, width: 1400, height: 800, scale: 1 } as never);
+  }
+}

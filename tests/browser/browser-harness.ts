@@ -1,0 +1,103 @@
+/**
+ * Browser tests' harness: a real slopebreak server on a loopback port with the sample surveys
+ * loaded (as the README's main-job command starts it), and Debian's Chromium driven by
+ * playwright-core. Every page's console errors and uncaught exceptions are collected, so a test
+ * can assert that there were none. Screenshots go to `tests/browser/screenshots/` (not committed).
+ *
+ * Chromium: `/usr/bin/chromium` from Debian's `chromium` package (installed by `.ci/run`), or
+ * `SLOPEBREAK_CHROMIUM` if set. A missing browser fails the tests with the fix, never skips them.
+ */
+import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { startServer, type RunningServer } from '../../server/serve.js';
+
+export const CHROMIUM_PATH = process.env['SLOPEBREAK_CHROMIUM'] ?? '/usr/bin/chromium';
+export const SCREENSHOT_DIR = fileURLToPath(new URL('./screenshots/', import.meta.url));
+export const SAMPLE_DIR = fileURLToPath(new URL('../../sample-surveys/', import.meta.url));
+const BUILT_CLIENT = fileURLToPath(new URL('../../dist/client/index.html', import.meta.url));
+
+/** Flags known to work for headless Debian Chromium here (no GPU, closed network). */
+const CHROMIUM_FLAGS = [
+  '--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update',
+  '--disable-sync', '--no-first-run', '--disable-quic',
+  // WebGL without a GPU: the software rasteriser, for the WebGL pick traces of large surveys.
+  '--enable-unsafe-swiftshader', '--use-angle=swiftshader',
+];
+
+/** A laptop screen. */
+export const LAPTOP = { width: 1366, height: 768 } as const;
+/** A common projector resolution. */
+export const PROJECTOR = { width: 1280, height: 720 } as const;
+
+export interface BrowserSession {
+  readonly server: RunningServer;
+  readonly baseUrl: string;
+  readonly browser: Browser;
+  /** Console errors and page errors of every page opened through `newPage`. */
+  readonly errors: string[];
+  newPage(viewport?: { width: number; height: number }): Promise<{ page: Page; context: BrowserContext }>;
+  screenshot(page: Page, name: string): Promise<string>;
+  close(): Promise<void>;
+}
+
+export async function startBrowserSession(): Promise<BrowserSession> {
+  if (!existsSync(CHROMIUM_PATH)) {
+    throw new Error(`Chromium is not at ${CHROMIUM_PATH}: install Debian's package (apt-get install -y chromium), as .ci/run does, or set SLOPEBREAK_CHROMIUM`);
+  }
+  if (!existsSync(BUILT_CLIENT)) throw new Error('the browser client is not built: run npm run build:client (npm test builds it first)');
+  mkdirSync(SCREENSHOT_DIR, { recursive: true });
+  const dataDir = mkdtempSync(join(tmpdir(), 'slopebreak-browser-'));
+  const server = await startServer({ dataDir, host: '127.0.0.1', port: 0, sampleFolder: SAMPLE_DIR, say: () => undefined, logSink: () => undefined });
+  const browser = await chromium.launch({ executablePath: CHROMIUM_PATH, args: CHROMIUM_FLAGS, headless: true });
+  const errors: string[] = [];
+  const baseUrl = `http://127.0.0.1:${server.port}`;
+  return {
+    server,
+    baseUrl,
+    browser,
+    errors,
+    async newPage(viewport = LAPTOP) {
+      const context = await browser.newContext({ viewport, acceptDownloads: true, baseURL: baseUrl });
+      const page = await context.newPage();
+      page.on('console', (message) => {
+        if (message.type() === 'error') errors.push(`console: ${message.text()} (${page.url()})`);
+      });
+      page.on('pageerror', (error) => errors.push(`page error: ${error.message} (${page.url()})`));
+      return { page, context };
+    },
+    async screenshot(page, name) {
+      const file = join(SCREENSHOT_DIR, `${name}.png`);
+      await page.screenshot({ path: file, fullPage: true });
+      return file;
+    },
+    async close() {
+      await browser.close();
+      await server.stop();
+      rmSync(dataDir, { recursive: true, force: true });
+    },
+  };
+}
+
+/** Wait until a plot has been drawn (its `data-drawn` stamp changes from `previous`). */
+export async function waitForPlot(page: Page, selector: string, previous: string | null = null): Promise<string> {
+  const handle = await page.waitForFunction(
+    ({ selector: target, previous: before }) => {
+      const stamp = document.querySelector<HTMLElement>(target)?.dataset['drawn'];
+      return stamp && stamp !== before ? stamp : null;
+    },
+    { selector, previous },
+    { timeout: 20_000 },
+  );
+  return (await handle.jsonValue()) as string;
+}
+
+/** The roles (meta.role) of the traces a plot holds, with their point counts. */
+export async function traceRoles(page: Page, selector: string): Promise<{ role: string; points: number; type: string }[]> {
+  return page.evaluate((target) => {
+    const plot = document.querySelector(target) as unknown as { data?: { meta?: { role?: string }; x?: unknown[]; type?: string }[] } | null;
+    return (plot?.data ?? []).map((trace) => ({ role: trace.meta?.role ?? '', points: trace.x?.length ?? 0, type: trace.type ?? '' }));
+  }, selector);
+}
