@@ -93,7 +93,8 @@ export function createApp(configInput: ServerConfigInput, deps: AppDeps = {}): E
   // The client's plots make their PNG exports through blob: images, hence `img-src blob:`.
   app.use(helmet({
     strictTransportSecurity: false,
-    contentSecurityPolicy: { directives: { upgradeInsecureRequests: null, imgSrc: ["'self'", 'data:', 'blob:'] } },
+    // Styles from this server only; inline styles stay allowed because plotly writes its own.
+    contentSecurityPolicy: { directives: { upgradeInsecureRequests: null, imgSrc: ["'self'", 'data:', 'blob:'], styleSrc: ["'self'", "'unsafe-inline'"] } },
   }));
   app.use(requestLogger(logger));
   app.use(sameOrigin(config.allowedHostNames));

@@ -57,7 +57,7 @@ function freezeSides(result: Interpretation, picks: readonly StoredPick[], sides
   const edits: BranchEdit[] = [];
   for (const shot of result.shots) {
     for (const side of shot.sides) {
-      if (side.assignedBy !== 'automatic' || !sides.has(sideKey(shot.id, side.side))) continue;
+      if (!sides.has(sideKey(shot.id, side.side))) continue;
       for (const branch of side.branches) {
         for (const pick of branch.picks) {
           const pickIndex = index.get(pick.line);

@@ -12,7 +12,7 @@
  *   API is unaffected.
  * Nothing from the request becomes a path except through `express.static`, which refuses `..`.
  */
-import { existsSync, readFileSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import express, { Router, type Request } from 'express';
@@ -53,19 +53,25 @@ export function clientRoutes(context: RouteContext): Router {
   const indexFile = join(clientDir, 'index.html');
   const router = Router();
 
-  router.use('/assets', express.static(join(clientDir, 'assets'), { immutable: true, maxAge: '365d', index: false, fallthrough: true }));
+  router.use('/assets', express.static(join(clientDir, 'assets'), { immutable: true, maxAge: '365d', index: false, redirect: false, fallthrough: true }));
 
   router.get(CLIENT_PAGE_PATHS as string[], (request, response, next) => {
+    // The same path answers HTML or JSON by Accept: caches must keep the two apart.
+    response.vary('Accept');
     if (!prefersHtml(request)) {
       next();
       return;
     }
     // Read on each request: a rebuilt client is served without restarting, and the page is small.
-    if (!existsSync(indexFile)) {
-      response.status(503).type('html').send(NOT_BUILT_PAGE);
+    // Missing or unreadable (a rebuild empties the folder for a moment): the 503 page, not a 500.
+    let page: Buffer;
+    try {
+      page = readFileSync(indexFile);
+    } catch {
+      response.status(503).set('Cache-Control', 'no-store').type('html').send(NOT_BUILT_PAGE);
       return;
     }
-    response.set('Cache-Control', 'no-cache').type('html').send(readFileSync(indexFile));
+    response.set('Cache-Control', 'no-cache').type('html').send(page);
   });
 
   return router;

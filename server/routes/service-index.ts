@@ -29,7 +29,8 @@ export function serviceIndexRoutes(context: RouteContext): Router {
   const router = Router();
   router.get(['/', '/api'], (_request, response) => {
     const surveys = context.store.listSurveys({}).map((survey) => ({ id: survey.id, name: survey.name, url: `/api/surveys/${survey.id}` }));
-    response.json({
+    // It lists survey names: not for shared caches.
+    response.set('Cache-Control', 'private, no-cache').json({
       service: 'slopebreak',
       version: context.softwareVersion,
       about: 'seismic-refraction interpretation for the office network: first-arrival picks in, a layered velocity-depth model out',

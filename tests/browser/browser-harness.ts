@@ -36,8 +36,17 @@ export interface BrowserSession {
   readonly server: RunningServer;
   readonly baseUrl: string;
   readonly browser: Browser;
+  /** Where screenshots and other artefacts for a person to look at go (not committed). */
+  readonly screenshotDir: string;
   /** Console errors and page errors of every page opened through `newPage`. */
   readonly errors: string[];
+  /**
+   * Allow one console line matching `pattern` (a response the test provokes on purpose, such as a
+   * 422 refusal, which Chromium logs as a failed resource load). Unused allowances fail the test too.
+   */
+  expectConsole(pattern: RegExp): void;
+  /** Console errors not allowed by `expectConsole`, and allowances that were not used; both cleared. */
+  takeUnexpected(): string[];
   newPage(viewport?: { width: number; height: number }): Promise<{ page: Page; context: BrowserContext }>;
   screenshot(page: Page, name: string): Promise<string>;
   close(): Promise<void>;
@@ -53,12 +62,28 @@ export async function startBrowserSession(): Promise<BrowserSession> {
   const server = await startServer({ dataDir, host: '127.0.0.1', port: 0, sampleFolder: SAMPLE_DIR, say: () => undefined, logSink: () => undefined });
   const browser = await chromium.launch({ executablePath: CHROMIUM_PATH, args: CHROMIUM_FLAGS, headless: true });
   const errors: string[] = [];
+  let allowed: RegExp[] = [];
   const baseUrl = `http://127.0.0.1:${server.port}`;
   return {
     server,
     baseUrl,
     browser,
+    screenshotDir: SCREENSHOT_DIR,
     errors,
+    expectConsole(pattern) {
+      allowed.push(pattern);
+    },
+    takeUnexpected() {
+      const unexpected = errors.splice(0).filter((line) => {
+        const index = allowed.findIndex((pattern) => pattern.test(line));
+        if (index < 0) return true;
+        allowed.splice(index, 1);
+        return false;
+      });
+      const unused = allowed.map((pattern) => `expected console line never came: ${pattern}`);
+      allowed = [];
+      return [...unexpected, ...unused];
+    },
     async newPage(viewport = LAPTOP) {
       const context = await browser.newContext({ viewport, acceptDownloads: true, baseURL: baseUrl });
       const page = await context.newPage();
@@ -81,11 +106,26 @@ export async function startBrowserSession(): Promise<BrowserSession> {
   };
 }
 
+/** What the page functions below use of the browser's globals (the root tsconfig has no DOM types). */
+export interface PageGlobals {
+  readonly document: {
+    querySelector(selector: string): (PlotElement & { dataset: Record<string, string | undefined>; textContent: string | null }) | null;
+    querySelectorAll(selector: string): ArrayLike<{ textContent: string | null }>;
+  };
+}
+/** A plotly graph element: its traces and, after drawing, its laid-out axes. */
+export interface PlotElement {
+  readonly data?: { meta?: { role?: string; branch?: number }; x?: unknown[]; y?: unknown[]; customdata?: unknown[]; type?: string }[];
+  readonly layout?: Record<string, unknown>;
+  readonly _fullLayout?: Record<string, { _offset: number; l2p: (value: number) => number } | undefined>;
+  getBoundingClientRect(): { left: number; top: number };
+}
+
 /** Wait until a plot has been drawn (its `data-drawn` stamp changes from `previous`). */
 export async function waitForPlot(page: Page, selector: string, previous: string | null = null): Promise<string> {
   const handle = await page.waitForFunction(
     ({ selector: target, previous: before }) => {
-      const stamp = document.querySelector<HTMLElement>(target)?.dataset['drawn'];
+      const stamp = (globalThis as unknown as PageGlobals).document.querySelector(target)?.dataset['drawn'];
       return stamp && stamp !== before ? stamp : null;
     },
     { selector, previous },
@@ -97,7 +137,7 @@ export async function waitForPlot(page: Page, selector: string, previous: string
 /** The roles (meta.role) of the traces a plot holds, with their point counts. */
 export async function traceRoles(page: Page, selector: string): Promise<{ role: string; points: number; type: string }[]> {
   return page.evaluate((target) => {
-    const plot = document.querySelector(target) as unknown as { data?: { meta?: { role?: string }; x?: unknown[]; type?: string }[] } | null;
+    const plot = (globalThis as unknown as PageGlobals).document.querySelector(target);
     return (plot?.data ?? []).map((trace) => ({ role: trace.meta?.role ?? '', points: trace.x?.length ?? 0, type: trace.type ?? '' }));
   }, selector);
 }
