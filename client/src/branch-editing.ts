@@ -6,8 +6,8 @@
  * Why sides are "frozen": the service lets the user's labels decide a side's split as soon as any
  * pick of that side carries one, and every unlabelled pick then joins the nearest labelled branch
  * line. Moving one pick of an automatically split side would therefore pull the side's other
- * branches into the one the user named. So the first edit on an automatic side also labels every
- * pick of that side with the branch it is on now; the user's change is applied on top.
+ * branches into the one the user named. So an edit on a side also labels every unlabelled pick of
+ * that side with the branch it is on now; the user's change is applied on top.
  *
  * Picks are matched between the interpretation (which names picks by table line) and the stored
  * pick set (whose order gives `pickIndex`) by their line in the pick table.
@@ -51,7 +51,12 @@ export function indexByLine(picks: readonly StoredPick[]): Map<number, number> {
   return new Map(picks.map((pick, index) => [pick.line, index]));
 }
 
-/** The edits that label every branch pick of each automatically split side in `sides` with its current branch. */
+/**
+ * The edits that label every unlabelled branch pick of the sides in `sides` with the branch it is
+ * on now: all picks of an automatically split side, and on a side the user labels already, those
+ * picks that follow the nearest line (a partial `branch` column, or picks handed back). Labelled
+ * picks are left alone.
+ */
 function freezeSides(result: Interpretation, picks: readonly StoredPick[], sides: ReadonlySet<string>): BranchEdit[] {
   const index = indexByLine(picks);
   const edits: BranchEdit[] = [];
@@ -61,7 +66,7 @@ function freezeSides(result: Interpretation, picks: readonly StoredPick[], sides
       for (const branch of side.branches) {
         for (const pick of branch.picks) {
           const pickIndex = index.get(pick.line);
-          if (pickIndex !== undefined) edits.push({ pickIndex, assign: branch.index });
+          if (pickIndex !== undefined && picks[pickIndex]!.branch === null) edits.push({ pickIndex, assign: branch.index });
         }
       }
     }

@@ -19,7 +19,7 @@ export function refractorMethods(result: Interpretation): string[] {
 
 /** A short name for a method: its words before "under" or "(": "intercept-time method". */
 export function shortMethodName(method: string): string {
-  return method.split(/\s+(?:under|\()/)[0] ?? method;
+  return method.split(/\s+(?:under\s|\()/)[0] ?? method;
 }
 
 /** Ground elevation along the line, from the receivers' (and sources') elevations, by position. */
@@ -49,8 +49,18 @@ function interpolate(xs: readonly number[], ys: readonly number[], at: number): 
 
 /** Extent of the line: every receiver and source position. */
 function lineExtent(result: Interpretation): [number, number] {
-  const positions = result.shots.flatMap((shot) => [shot.sourceX, ...shot.sides.flatMap((side) => side.branches.flatMap((branch) => branch.picks.map((pick) => pick.receiverX)))]);
-  return positions.length > 0 ? [Math.min(...positions), Math.max(...positions)] : [0, 1];
+  // A loop, not Math.min(...positions): spreading 10^5 picks as arguments overflows the stack.
+  let low = Infinity;
+  let high = -Infinity;
+  const include = (x: number) => {
+    if (x < low) low = x;
+    if (x > high) high = x;
+  };
+  for (const shot of result.shots) {
+    include(shot.sourceX);
+    for (const side of shot.sides) for (const branch of side.branches) for (const pick of branch.picks) include(pick.receiverX);
+  }
+  return Number.isFinite(low) ? [low, high] : [0, 1];
 }
 
 export function depthFigure(result: Interpretation, picks: readonly StoredPick[] | null, method: string | null, mode: DepthMode, uiRevision: string): Figure {

@@ -14,9 +14,10 @@ export function decimalsFor(se: number | null | undefined, value: number): numbe
 /** `1381 ± 21` (no unit), or `—` when the value is not available. */
 export function withError(value: number | null | undefined, se: number | null | undefined): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return '—';
+  // Without a standard error: four significant figures, trailing zeros dropped.
+  if (se === null || se === undefined || !Number.isFinite(se)) return String(Number(value.toPrecision(4)));
   const places = decimalsFor(se, value);
-  const main = value.toFixed(places);
-  return se !== null && se !== undefined && Number.isFinite(se) ? `${main} ± ${se.toFixed(places)}` : main;
+  return `${value.toFixed(places)} ± ${se.toFixed(places)}`;
 }
 
 /** A value with its unit: `1381 ± 21 m/s`. */

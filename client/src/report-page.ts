@@ -9,7 +9,7 @@ import type { Interpretation, Revision, Survey } from './api-types.js';
 import { depthFigure, refractorMethods } from './depth-figure.js';
 import { h, replaceChildren } from './dom.js';
 import { loadPlotly } from './plotly-loader.js';
-import { cautionList, layerTable, referenceList, shotTable, warningItem } from './results-view.js';
+import { cautionList, layerTable, referenceList, shotTable, surveyWarnings } from './results-view.js';
 import { paths } from './routes.js';
 import { travelTimeFigure } from './travel-time-figure.js';
 import type { Figure } from './travel-time-figure.js';
@@ -83,11 +83,12 @@ export async function renderReport(root: HTMLElement, surveyId: string, revision
       h('section', { class: 'report-section' }, layerTable(result)),
       h('section', { class: 'report-section' }, h('h2', {}, 'Travel times'), travelImage,
         h('p', { class: 'plot-note' }, 'Picks by branch (colour and marker shape), fitted branch lines, fitted crossovers (ringed), residuals against the branch lines underneath.')),
-      h('section', { class: 'report-section page-break' }, h('h2', {}, 'Depth section'), depthImage,
+      h('section', { class: 'report-section' }, h('h2', {}, 'Depth section'), depthImage,
         h('p', { class: 'plot-note' }, `${method ?? 'No refractor depths'}; ±1 standard error. Dashed: the survey's combined layer tops.`)),
       h('section', { class: 'report-section' }, shotTable(result)),
       h('section', { class: 'report-section' }, h('h2', {}, 'Warnings'),
-        result.warnings.length > 0 ? h('ul', { class: 'warnings' }, ...result.warnings.map(warningItem)) : h('p', {}, 'None.')),
+        h('p', { class: 'plot-note' }, `${result.warnings.length} in all. Warnings about a layer are printed under it in the layer table, those about a shot under it in the shot table; the rest concern the whole survey:`),
+        surveyWarnings(result)),
       referenceList(result),
       h('footer', { class: 'report-foot' }, `${result.software.name} ${result.software.version} · survey ${survey.name} · revision ${revision.number} · printed ${new Date().toLocaleString()}`),
     ));

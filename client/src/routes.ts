@@ -13,7 +13,7 @@ export interface Route {
 }
 
 export function parseRoute(pathname: string): Route {
-  const match = /^\/surveys\/([0-9A-Za-z_-]{1,64})(?:\/revisions\/(\d+)(\/report)?)?\/?$/.exec(pathname);
+  const match = /^\/surveys\/([0-9A-Za-z_-]{1,64})(?:\/revisions\/([1-9]\d{0,8})(\/report)?)?\/?$/.exec(pathname);
   if (!match) return { surveyId: null, revision: null, report: false };
   return { surveyId: match[1]!, revision: match[2] ? Number(match[2]) : null, report: match[3] !== undefined };
 }

@@ -36,7 +36,11 @@ export class SurveyPanel {
   private currentId: string | null = null;
   private searchTimer: number | undefined;
 
-  constructor(private readonly hooks: SurveyPanelHooks) {
+  /**
+   * `problemsHost`: where a refused file's problems are listed — the wide main column, since a
+   * table of line, column, problem and fix does not fit the narrow panel.
+   */
+  constructor(private readonly hooks: SurveyPanelHooks, private readonly problemsHost: HTMLElement) {
     this.search = h('input', {
       type: 'search', id: 'survey-search', placeholder: 'Find by name', 'aria-label': 'Find surveys by name', autocomplete: 'off',
       oninput: () => {
@@ -104,7 +108,10 @@ export class SurveyPanel {
 
   private item(survey: Survey): HTMLLIElement {
     const current = survey.id === this.currentId;
-    const open = h('button', { class: 'survey-open', type: 'button', 'aria-current': current ? 'true' : false, onclick: () => this.hooks.open(survey.id) },
+    const open = h('button', { class: 'survey-open', type: 'button', 'aria-current': current ? 'true' : false, onclick: () => {
+      this.clearProblems();
+      this.hooks.open(survey.id);
+    } },
       h('span', { class: 'survey-name' }, survey.name),
       h('span', { class: 'survey-meta' }, `${survey.scale === 'crustal' ? 'crustal' : 'engineering'} · ${new Date(survey.updatedAt).toLocaleDateString()}`),
     );
@@ -148,6 +155,21 @@ export class SurveyPanel {
     }
   }
 
+  private showProblems(fileName: string, problems: readonly TableProblem[], heading: string): void {
+    replaceChildren(this.problemsHost,
+      h('div', { class: 'problems-head' },
+        h('h2', {}, heading),
+        h('button', { type: 'button', onclick: () => this.clearProblems(), 'aria-label': `Close the list of problems in ${fileName}` }, 'Close')),
+      problemTable(problems, `${fileName}: line by line`),
+    );
+    this.problemsHost.hidden = false;
+  }
+
+  private clearProblems(): void {
+    replaceChildren(this.problemsHost);
+    this.problemsHost.hidden = true;
+  }
+
   /** Create a survey from `file`, upload it with progress, interpret it; on refusal list the problems and delete the survey. */
   async upload(file: File): Promise<void> {
     const progress = h('progress', { max: 1, value: 0, 'aria-label': `Uploading ${file.name}` });
@@ -162,8 +184,9 @@ export class SurveyPanel {
       const revision = await api.interpret(survey.id, reply.version, reply.suggestedScale);
       replaceChildren(this.uploadState,
         h('p', { class: 'upload-done' }, `${file.name}: ${reply.pickCount} picks, ${reply.shotIds.length} shots, interpreted as revision ${revision.number}.`),
-        reply.warnings.length > 0 ? problemTable(reply.warnings, 'The reader noted') : null,
       );
+      if (reply.warnings.length > 0) this.showProblems(file.name, reply.warnings, `${file.name} was loaded; the reader noted:`);
+      else this.clearProblems();
       await this.refresh();
       this.hooks.created(survey.id, revision.number);
     } catch (error) {
@@ -172,10 +195,10 @@ export class SurveyPanel {
         await api.getSurvey(survey.id).then((stale) => api.deleteSurvey(stale.id, stale.version)).catch(() => undefined);
       }
       if (error instanceof ServiceError && error.problems.length > 0) {
+        const count = `${error.problems.length} problem${error.problems.length === 1 ? '' : 's'}`;
         replaceChildren(this.uploadState,
-          h('p', { class: 'upload-refused', role: 'alert' }, `${file.name} was not loaded: ${error.problems.length} problem${error.problems.length === 1 ? '' : 's'}. Nothing was stored.`),
-          problemTable(error.problems, 'Problems'),
-        );
+          h('p', { class: 'upload-refused', role: 'alert' }, `${file.name} was not loaded: ${count}, listed beside. Nothing was stored.`));
+        this.showProblems(file.name, error.problems, `${file.name} was not loaded: ${count}. Nothing was stored; correct the file and bring it in again.`);
       } else {
         replaceChildren(this.uploadState, h('p', { class: 'upload-refused', role: 'alert' },
           `${file.name} was not loaded: ${error instanceof Error ? error.message : String(error)}.`,

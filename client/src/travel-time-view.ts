@@ -289,6 +289,7 @@ export class TravelTimeView {
     try {
       await this.hooks.applyEdits(edits, description);
       this.selection = new Set();
+      void this.draw();
     } finally {
       this.busy = false;
       this.renderEditPanel();

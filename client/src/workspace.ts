@@ -22,6 +22,11 @@ const REVISION_POLL_MS = 10_000;
 
 type ViewName = 'travel-times' | 'depth';
 
+/** The survey changed last (ISO timestamps sort as text). */
+function mostRecentlyChanged(surveys: readonly Survey[]): Survey | undefined {
+  return [...surveys].sort((left, right) => right.updatedAt.localeCompare(left.updatedAt))[0];
+}
+
 interface UndoStep {
   readonly description: string;
   readonly edits: BranchEdit[];
@@ -37,6 +42,7 @@ export class Workspace {
   private readonly tabs: HTMLElement;
   private readonly actions: HTMLElement;
   private readonly notice: HTMLElement;
+  private readonly problems: HTMLElement;
   private readonly status: HTMLElement;
   private readonly viewHolder: HTMLElement;
   private readonly results: HTMLElement;
@@ -51,12 +57,13 @@ export class Workspace {
 
   constructor(root: HTMLElement) {
     this.root = root;
+    this.problems = h('section', { class: 'upload-problems', id: 'upload-problems', hidden: true, 'aria-label': 'Problems found in the file' });
     this.panel = new SurveyPanel({
       open: (id) => void this.openSurvey(id, null, true),
       created: (id, revision) => void this.openSurvey(id, revision, true),
       changed: (survey, deletedId) => void this.surveyChanged(survey, deletedId),
       failed: (error, what) => this.fail(error, what),
-    });
+    }, this.problems);
     this.travelTimes = new TravelTimeView({
       applyEdits: (edits, description) => this.applyEdits(edits, description, true),
       undo: () => this.undo(),
@@ -85,7 +92,7 @@ export class Workspace {
     );
     replaceChildren(root,
       header,
-      h('div', { class: 'workspace' }, this.panel.element, h('main', { class: 'main-column', id: 'main' }, this.notice, this.status, this.viewHolder, this.results)),
+      h('div', { class: 'workspace' }, this.panel.element, h('main', { class: 'main-column', id: 'main' }, this.problems, this.notice, this.status, this.viewHolder, this.results)),
       footer,
       this.tokenDialog,
     );
@@ -104,7 +111,7 @@ export class Workspace {
       return;
     }
     // First sight: the most recently changed survey, so a newcomer sees a result without a click.
-    const latest = [...surveys].sort((left, right) => right.updatedAt.localeCompare(left.updatedAt))[0];
+    const latest = mostRecentlyChanged(surveys);
     if (latest) await this.openSurvey(latest.id, null, false);
     else this.renderEmpty();
   }
@@ -206,11 +213,11 @@ export class Workspace {
   private renderHeader(): void {
     const survey = this.survey;
     if (!survey) return;
-    replaceChildren(this.title, h('h1', {}, survey.name), survey.description ? h('span', { class: 'survey-description' }, survey.description) : null);
+    replaceChildren(this.title, h('h1', { title: survey.description || survey.name }, survey.name));
     if (this.revision) {
       const select = h('select', { id: 'revision-select', 'aria-label': 'Revision shown' },
         ...[...this.revisions].reverse().map((entry) => h('option', { value: String(entry.number), selected: entry.number === this.revision!.number },
-          `revision ${entry.number}${entry.number === this.revisions[this.revisions.length - 1]?.number ? ' (latest)' : ''} · ${new Date(entry.createdAt).toLocaleString()}`)),
+          `revision ${entry.number}${entry.number === this.revisions[this.revisions.length - 1]?.number ? ' (latest)' : ''} · ${new Date(entry.createdAt).toLocaleString(undefined, { dateStyle: 'short', timeStyle: 'short' })}`)),
       );
       select.addEventListener('change', () => void this.openSurvey(survey.id, Number(select.value), true));
       replaceChildren(this.revisionPicker, select);
@@ -274,6 +281,7 @@ export class Workspace {
       h('a', { class: 'button-link', href: paths.report(survey.id, revision.number) }, 'Printable report'),
     );
     const summary = h('p', { class: 'result-summary', id: 'result-summary' },
+      survey.description ? h('span', { class: 'survey-description' }, `${survey.description}. `) : null,
       `Revision ${revision.number}: ${result.summary.pickCount} picks of ${result.summary.shotCount} shots on ${result.summary.shotSideCount} shot sides; `,
       `${result.summary.layerCount} layers; ${result.summary.excludedPickCount} picks excluded; fits by ${result.options.fitMethod}`,
       result.residuals.overallRms !== null ? `; RMS misfit ${result.residuals.overallRms.toFixed(result.units.time === 'ms' ? 2 : 4)} ${result.units.time}.` : '.',
@@ -340,8 +348,10 @@ export class Workspace {
     }
     if (deletedId && this.survey?.id === deletedId) {
       history.pushState(null, '', '/');
-      const surveys = await this.panel.refresh();
-      const next = surveys[surveys.length - 1];
+      await this.panel.refresh();
+      // The next survey to show comes from all surveys, not only those the search shows.
+      const surveys = await api.listSurveys().catch(() => []);
+      const next = mostRecentlyChanged(surveys);
       if (next) await this.openSurvey(next.id, null, true);
       else this.renderEmpty();
     }

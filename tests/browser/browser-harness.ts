@@ -48,7 +48,8 @@ export interface BrowserSession {
   /** Console errors not allowed by `expectConsole`, and allowances that were not used; both cleared. */
   takeUnexpected(): string[];
   newPage(viewport?: { width: number; height: number }): Promise<{ page: Page; context: BrowserContext }>;
-  screenshot(page: Page, name: string): Promise<string>;
+  /** The visible screen (what a person sees first), or the whole page when `fullPage`. */
+  screenshot(page: Page, name: string, fullPage?: boolean): Promise<string>;
   close(): Promise<void>;
 }
 
@@ -93,9 +94,9 @@ export async function startBrowserSession(): Promise<BrowserSession> {
       page.on('pageerror', (error) => errors.push(`page error: ${error.message} (${page.url()})`));
       return { page, context };
     },
-    async screenshot(page, name) {
+    async screenshot(page, name, fullPage = false) {
       const file = join(SCREENSHOT_DIR, `${name}.png`);
-      await page.screenshot({ path: file, fullPage: true });
+      await page.screenshot({ path: file, fullPage });
       return file;
     },
     async close() {

@@ -91,7 +91,7 @@ function lineOf(csv: string, shot: string, receiverX: number): number {
 }
 
 async function openSurveyNamed(name: string): Promise<void> {
-  const before = await page.getAttribute('#travel-time-plot', 'data-drawn').catch(() => null);
+  const before = (await (await page.$('#travel-time-plot'))?.getAttribute('data-drawn')) ?? null;
   await page.click(`.survey-list li:has-text("${name}") .survey-open`);
   await page.waitForFunction((wanted) => (globalThis as unknown as PageGlobals).document.querySelector('#survey-title')?.textContent?.includes(wanted) ?? false, name);
   await waitForPlot(page, '#travel-time-plot', before);
@@ -172,6 +172,7 @@ describe('the browser client', () => {
     }, line);
     expect(branchOfLine).toBe(2);
     await session.screenshot(page, '04-after-reassign');
+    await session.screenshot(page, '04-after-reassign-whole-page', true);
   });
 
   it('undoes the edit as a new revision that restores the layer table', async () => {
@@ -313,7 +314,7 @@ describe('the browser client', () => {
     expect(await page.$$eval('.report .layer-table tbody tr[data-layer]', (rows) => rows.length)).toBe(3);
     expect(await page.$$eval('#report-cautions li', (items) => items.length)).toBeGreaterThanOrEqual(4);
     expect(await page.$$eval('.report .warnings li', (items) => items.length)).toBeGreaterThan(0);
-    await session.screenshot(page, '08-report');
+    await session.screenshot(page, '08-report', true);
     const pdf = await page.pdf({ format: 'A4', printBackground: true });
     writeFileSync(join(session.screenshotDir, '08-report.pdf'), pdf);
     expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-'); // PDF header (ISO 32000-1 §7.5.2)
@@ -374,6 +375,9 @@ describe('the browser client', () => {
     page.once('dialog', (dialog) => void dialog.accept());
     await page.click('.survey-list li:has-text("dense-line") button:has-text("Delete")');
     await page.waitForFunction(() => (globalThis as unknown as PageGlobals).document.querySelectorAll('.survey-list .survey-name').length === 0);
+    // The open survey was deleted: the latest other survey is shown, whatever the search shows.
+    await page.waitForFunction(() => !((globalThis as unknown as PageGlobals).document.querySelector('#survey-title')?.textContent ?? 'dense-line').includes('dense-line'));
+    await waitForPlot(page, '#travel-time-plot');
     await page.fill('#survey-search', '');
     await page.waitForFunction(() => (globalThis as unknown as PageGlobals).document.querySelectorAll('.survey-list .survey-name').length === 4);
     await page.click('.survey-list li:has-text("thousand-picks") button:has-text("Rename")');

@@ -264,6 +264,23 @@ describe('breakpointEdits', () => {
     });
   }
 
+  it('breakpointEdits on a side the user labels only in part also fixes the unlabelled picks, so picks of the other branches stay where they were', () => {
+    // Label the 2nd and 3rd pick of each branch of A-W forward only: the rest follow the nearest line.
+    const side = sideOf(BASE, 'A-W', 'forward');
+    const index = indexByLine(PICKS);
+    const partial = side.branches.flatMap((branch) => branch.picks.slice(1, 3).map((pick) => ({ pickIndex: index.get(pick.line)!, assign: branch.index })));
+    const labelled = applied(SAMPLE, partial);
+    const before = engineView(labelled);
+    const beforeMembers = memberships(before);
+    const breakpoint = breakpointsOf(asClient(before)).find((candidate) => candidate.shot === 'A-W' && candidate.side === 'forward' && candidate.lowerBranch === 1)!;
+    const edits = breakpointEdits(asClient(before), labelled.picks, breakpoint, 9);
+    const after = memberships(engineView(applied(labelled, edits)));
+    // Oracle: lib. Branch 3 of A-W forward is untouched by a 1|2 move, labelled or not.
+    const branchThree = [...beforeMembers].filter(([, member]) => member.side === 'A-W/forward' && member.branch === 3);
+    expect(branchThree.length).toBeGreaterThan(10);
+    for (const [line, member] of branchThree) expect(after.get(line)?.branch, `table line ${line} at ${member.offset} m`).toBe(3);
+  });
+
   it('breakpointEdits gives no edits for a breakpoint of a shot the interpretation does not have', () => {
     const breakpoint = breakpointsOf(asClient(BASE))[0]!;
     expect(breakpointEdits(asClient(BASE), PICKS, { ...breakpoint, shot: 'NO-SUCH-SHOT' }, 10)).toEqual([]);

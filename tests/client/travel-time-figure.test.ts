@@ -237,7 +237,7 @@ describe('travelTimeFigure: picks on no branch and the selection', () => {
   const EXCLUDED_SET = applied(SAMPLE, EXCLUDED_LINES.map((line): BranchEdit => ({ pickIndex: indexOfLine(line), assign: 'exclude' })));
   const EXCLUDED_RESULT = engineView(EXCLUDED_SET);
 
-  it("travelTimeFigure draws the stored picks the user excluded in the 'excluded' trace, at receiver position and time in ms, and nowhere else", () => {
+  it("travelTimeFigure draws the stored picks the user excluded in the 'excluded' trace, at receiver position and time in ms, nowhere else, and not for a hidden shot", () => {
     const figure = travelTimeFigure(asClient(EXCLUDED_RESULT), EXCLUDED_SET.picks, new Set(), OPTIONS);
     const excluded = single(figure, 'excluded');
     expect(numbers(excluded, 'customdata')).toEqual(EXCLUDED_LINES);
@@ -250,6 +250,10 @@ describe('travelTimeFigure: picks on no branch and the selection', () => {
     expect(elsewhere.filter((line) => EXCLUDED_LINES.includes(line))).toEqual([]);
     expect(tracesOf(figure, 'unassigned')).toEqual([]);
     expect(figure.pointCount).toBe(240);
+    // Line 150 is a pick of shot A-E: hiding that shot hides its excluded pick too.
+    const hidden = travelTimeFigure(asClient(EXCLUDED_RESULT), EXCLUDED_SET.picks, new Set(), { ...OPTIONS, hiddenShots: new Set(['A-E']) });
+    expect(byLine.get(150)?.shot).toBe('A-E');
+    expect(numbers(single(hidden, 'excluded'), 'customdata')).toEqual([60]);
     // Without the stored picks the client cannot know them: no such trace.
     expect(tracesOf(travelTimeFigure(asClient(EXCLUDED_RESULT), null, new Set(), OPTIONS), 'excluded')).toEqual([]);
   });
