@@ -7,7 +7,7 @@
 import type { Interpretation, RefractorResult, StoredPick } from './api-types.js';
 import { branchStyle } from './branch-style.js';
 import { displayFactors, plain, quantity } from './format.js';
-import { PLOT_THEME } from './plotly-loader.js';
+import { PLOT_THEME } from './plot-theme.js';
 import type { Figure, Trace } from './travel-time-figure.js';
 
 export type DepthMode = 'depth' | 'elevation';

@@ -74,12 +74,12 @@ export class DepthView {
     if (!this.result) return;
     const Plotly = await loadPlotly();
     const figure = depthFigure(this.result, this.picks, this.method, this.mode, this.uiRevision);
-    await Plotly.react(this.plot, figure.data as never, figure.layout as never, { responsive: true, displaylogo: false, modeBarButtonsToRemove: ['toImage'] } as never);
+    await Plotly.react(this.plot, figure.data, figure.layout, { responsive: true, displaylogo: false, modeBarButtonsToRemove: ['toImage'] });
     this.plot.dataset['drawn'] = `${this.method ?? ''}:${this.mode}:${Date.now()}`;
   }
 
   private async savePng(): Promise<void> {
     const Plotly = await loadPlotly();
-    await Plotly.downloadImage(this.plot, { format: 'png', filename: `${this.fileStem()}-depth-section`, width: 1400, height: 700, scale: 1 } as never);
+    await Plotly.downloadImage(this.plot, { format: 'png', filename: `${this.fileStem()}-depth-section`, width: 1400, height: 700, scale: 1 });
   }
 }

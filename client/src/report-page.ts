@@ -23,8 +23,8 @@ async function figureImage(figure: Figure, height: number, alt: string): Promise
   document.body.append(holder);
   try {
     const layout = { ...figure.layout, width: IMAGE_WIDTH, height, dragmode: false };
-    await Plotly.newPlot(holder, figure.data as never, layout as never, { staticPlot: true } as never);
-    const url = await Plotly.toImage(holder, { format: 'png', width: IMAGE_WIDTH, height, scale: 2 } as never);
+    await Plotly.newPlot(holder, figure.data, layout, { staticPlot: true });
+    const url = await Plotly.toImage(holder, { format: 'png', width: IMAGE_WIDTH, height, scale: 2 });
     return h('img', { src: url, alt, class: 'report-figure', width: IMAGE_WIDTH, height });
   } finally {
     Plotly.purge(holder);
@@ -61,11 +61,11 @@ export async function renderReport(root: HTMLElement, surveyId: string, revision
     const latest = revisions[revisions.length - 1]?.number ?? revision.number;
     // Excluded picks are drawn only when the stored picks are the ones this revision was made from.
     const storedPicks = picks !== null && picks.version === revision.surveyVersion ? picks.pickSet.picks : null;
-    const travel = travelTimeFigure(result, storedPicks, new Set(), { hiddenShots: new Set(), reductionVelocity: null, showLabels: true, dragMode: 'zoom', uiRevision: 'report' });
+    const travel = travelTimeFigure(result, storedPicks, new Set(), { hiddenShots: new Set(), reductionVelocity: null, showLabels: true, dragMode: 'zoom', uiRevision: 'report', allowWebgl: false });
     const method = refractorMethods(result)[0] ?? null;
     const depth = depthFigure(result, storedPicks, method, 'depth', 'report');
     const [travelImage, depthImage] = [
-      await figureImage({ ...travel, data: travel.data.map((trace) => ({ ...trace, type: trace['type'] === 'scattergl' ? 'scatter' : trace['type'] })) }, 640, 'Travel-time plot'),
+      await figureImage(travel, 640, 'Travel-time plot'),
       await figureImage(depth, 460, 'Depth section'),
     ];
     document.title = `${survey.name}, revision ${revision.number}: slopebreak report`;

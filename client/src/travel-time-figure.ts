@@ -5,14 +5,14 @@
  * panel underneath. Optionally in reduced time, t − |x − xs| / V_red, the way long profiles are
  * read. Pure: builds the figure, draws nothing.
  *
- * Past `WEBGL_POINT_COUNT` points the pick traces use WebGL, so a survey of many thousands of
- * picks still pans and zooms smoothly.
+ * Past `WEBGL_POINT_COUNT` points the pick traces use WebGL (when the browser has it), so a
+ * survey of many thousands of picks still pans and zooms smoothly.
  */
 import type { Interpretation, StoredPick } from './api-types.js';
 import { placesByLine, sideOfStoredPick } from './branch-editing.js';
 import { branchStyle, EXCLUDED_STYLE, SELECTED_STYLE, UNASSIGNED_STYLE } from './branch-style.js';
 import { displayFactors, plain, reductionFactor } from './format.js';
-import { PLOT_THEME } from './plotly-loader.js';
+import { PLOT_THEME } from './plot-theme.js';
 
 /** Points past which the pick traces are drawn with WebGL (SVG slows down beyond a few thousand). */
 export const WEBGL_POINT_COUNT = 3000;
@@ -28,6 +28,8 @@ export interface TravelTimeOptions {
   readonly dragMode: 'zoom' | 'pan' | 'select' | 'lasso';
   /** Keeps zoom and pan across redraws of the same survey. */
   readonly uiRevision: string;
+  /** WebGL may be used (the browser has it; a report image is always SVG). */
+  readonly allowWebgl: boolean;
 }
 
 export type Trace = Record<string, unknown>;
@@ -102,7 +104,7 @@ export function travelTimeFigure(result: Interpretation, picks: readonly StoredP
   }
 
   const pointCount = [...byBranch.values()].reduce((sum, points) => sum + points.x.length, 0) + excluded.x.length + unassigned.x.length;
-  const webgl = pointCount > WEBGL_POINT_COUNT;
+  const webgl = options.allowWebgl && pointCount > WEBGL_POINT_COUNT;
   const pointType = webgl ? 'scattergl' : 'scatter';
   const data: Trace[] = [];
 
@@ -145,8 +147,10 @@ export function travelTimeFigure(result: Interpretation, picks: readonly StoredP
   const annotations: Record<string, unknown>[] = [];
   const lines = new Map<number, { x: (number | null)[]; y: (number | null)[] }>();
   const crossovers = { x: [] as number[], y: [] as number[], text: [] as string[] };
-  for (const shot of result.shots) {
-    if (!shown(shot.id)) continue;
+  result.shots.forEach((shot, shotNumber) => {
+    if (!shown(shot.id)) return;
+    // Labels of neighbouring shots at three heights, so that they overlap less.
+    const labelRise = 24 + 14 * (shotNumber % 3);
     for (const side of shot.sides) {
       const direction = side.side === 'forward' ? 1 : -1;
       const position = (offset: number) => shot.sourceX + direction * offset;
@@ -172,7 +176,7 @@ export function travelTimeFigure(result: Interpretation, picks: readonly StoredP
             x: position(middle), y: lineTime(branch, middle) - reduce(middle), xref: 'x', yref: 'y',
             text: `${velocity}${intercept}`, showarrow: true, arrowhead: 0, arrowwidth: 1, arrowcolor: branchStyle(branch.index).color,
             // Forward sides labelled above their lines, reverse sides below: the two sets cross mid-line.
-            ax: 0, ay: direction > 0 ? -26 : 26, font: { size: 10, color: PLOT_THEME.ink }, bgcolor: 'rgba(255,255,255,0.85)',
+            ax: 0, ay: direction > 0 ? -labelRise : labelRise, font: { size: 10, color: PLOT_THEME.ink }, bgcolor: 'rgba(255,255,255,0.85)',
             bordercolor: branchStyle(branch.index).color, borderwidth: 1, borderpad: 2, align: 'left',
           });
         }
@@ -189,7 +193,7 @@ export function travelTimeFigure(result: Interpretation, picks: readonly StoredP
         );
       }
     }
-  }
+  });
   for (const index of [...lines.keys()].sort((left, right) => left - right)) {
     const segment = lines.get(index)!;
     const style = branchStyle(index);

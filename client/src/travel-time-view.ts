@@ -13,7 +13,7 @@ import type { BranchEdit, Interpretation, StoredPick } from './api-types.js';
 import { assignmentEdits, breakpointEdits, breakpointsOf, placesByLine, type Assignment, type Breakpoint } from './branch-editing.js';
 import { h, replaceChildren } from './dom.js';
 import { plain } from './format.js';
-import { loadPlotly } from './plotly-loader.js';
+import { loadPlotly, webglAvailable } from './plotly-loader.js';
 import { branchChip } from './results-view.js';
 import { travelTimeFigure, type TravelTimeOptions } from './travel-time-figure.js';
 
@@ -34,6 +34,9 @@ export interface TravelTimeHooks {
 }
 
 type DragMode = TravelTimeOptions['dragMode'];
+
+/** Velocity labels are shown by default while at most this many shots are drawn. */
+const AUTO_LABEL_SHOTS = 5;
 
 const DRAG_MODES: readonly { mode: DragMode; label: string; hint: string }[] = [
   { mode: 'zoom', label: 'Zoom', hint: 'drag a rectangle to zoom; double-click to see everything' },
@@ -56,10 +59,12 @@ export class TravelTimeView {
   private selection = new Set<number>();
   private dragMode: DragMode = 'zoom';
   private reductionVelocity: number | null = null;
-  private showLabels = true;
+  /** The user's choice for velocity labels; null: on while at most `AUTO_LABEL_SHOTS` shots are shown. */
+  private labelChoice: boolean | null = null;
   private busy = false;
   private listening = false;
   private drawing: Promise<void> = Promise.resolve();
+  private readonly webgl = webglAvailable();
 
   constructor(private readonly hooks: TravelTimeHooks) {
     this.plot = h('div', { class: 'plot travel-time-plot', id: 'travel-time-plot', role: 'img', 'aria-label': 'Travel-time plot: picks, fitted branch lines, crossovers and residuals' });
@@ -83,6 +88,7 @@ export class TravelTimeView {
     if (surveyChanged) {
       this.hiddenShots.clear();
       this.reductionVelocity = null;
+      this.labelChoice = null;
     }
     this.selection = new Set([...this.selection].filter((line) => picks?.some((pick) => pick.line === line)));
     this.renderToolbar();
@@ -133,8 +139,8 @@ export class TravelTimeView {
       ' Reduced time at ', velocityInput, ` ${units.velocity}`,
     );
     const labels = h('label', { class: 'check' },
-      h('input', { type: 'checkbox', id: 'branch-labels', checked: this.showLabels, onchange: (event: Event) => {
-        this.showLabels = (event.target as HTMLInputElement).checked;
+      h('input', { type: 'checkbox', id: 'branch-labels', checked: this.showLabels(), onchange: (event: Event) => {
+        this.labelChoice = (event.target as HTMLInputElement).checked;
         void this.draw();
       } }),
       ' Velocity labels',
@@ -154,6 +160,7 @@ export class TravelTimeView {
         onchange: (event: Event) => {
           if ((event.target as HTMLInputElement).checked) this.hiddenShots.delete(shot.id);
           else this.hiddenShots.add(shot.id);
+          this.renderToolbar();
           void this.draw();
         },
       });
@@ -166,6 +173,7 @@ export class TravelTimeView {
       this.hiddenShots.clear();
       if (!show) for (const shot of result.shots) this.hiddenShots.add(shot.id);
       this.renderShots();
+      this.renderToolbar();
       void this.draw();
     };
     replaceChildren(this.shotsPanel,
@@ -328,8 +336,18 @@ export class TravelTimeView {
     }
   }
 
+  /** Labels on by the user's choice, else while few shots are shown (more would hide the picks). */
+  private showLabels(): boolean {
+    if (this.labelChoice !== null) return this.labelChoice;
+    const shown = (this.result?.shots.length ?? 0) - this.hiddenShots.size;
+    return shown <= AUTO_LABEL_SHOTS;
+  }
+
   private options(): TravelTimeOptions {
-    return { hiddenShots: this.hiddenShots, reductionVelocity: this.reductionVelocity, showLabels: this.showLabels, dragMode: this.dragMode, uiRevision: this.uiRevision };
+    return {
+      hiddenShots: this.hiddenShots, reductionVelocity: this.reductionVelocity, showLabels: this.showLabels(), dragMode: this.dragMode,
+      uiRevision: this.uiRevision, allowWebgl: this.webgl,
+    };
   }
 
   /** Draw (or redraw) the plot; draws are queued so that a fast sequence of changes ends in the last state. */
@@ -347,10 +365,10 @@ export class TravelTimeView {
     this.plot.dataset['pointCount'] = String(figure.pointCount);
     this.plot.dataset['webgl'] = String(figure.webgl);
     const first = !this.plot.classList.contains('js-plotly-plot');
-    await Plotly.react(this.plot, figure.data as never, figure.layout as never, {
+    await Plotly.react(this.plot, figure.data, figure.layout, {
       responsive: true, displaylogo: false, scrollZoom: true,
       modeBarButtonsToRemove: ['toImage', 'select2d', 'lasso2d', 'zoom2d', 'pan2d'],
-    } as never);
+    });
     if (first) this.listen();
     this.plot.dataset['drawn'] = this.uiRevision + ':' + String(this.result.summary.pickCount) + ':' + String(Date.now());
   }
@@ -378,11 +396,11 @@ export class TravelTimeView {
 
   private async resetZoom(): Promise<void> {
     const Plotly = await loadPlotly();
-    await Plotly.relayout(this.plot, { 'xaxis.autorange': true, 'yaxis.autorange': true, 'yaxis2.autorange': true } as never);
+    await Plotly.relayout(this.plot, { 'xaxis.autorange': true, 'yaxis.autorange': true, 'yaxis2.autorange': true });
   }
 
   private async savePng(): Promise<void> {
     const Plotly = await loadPlotly();
-    await Plotly.downloadImage(this.plot, { format: 'png', filename: `${this.hooks.fileStem()}-travel-times`, width: 1400, height: 800, scale: 1 } as never);
+    await Plotly.downloadImage(this.plot, { format: 'png', filename: `${this.hooks.fileStem()}-travel-times`, width: 1400, height: 800, scale: 1 });
   }
 }

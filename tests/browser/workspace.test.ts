@@ -366,6 +366,13 @@ describe('the browser client', () => {
     expect(Number(await page.getAttribute('#travel-time-plot', 'data-point-count'))).toBeGreaterThan(3000);
     const types = new Set((await traceRoles(page, '#travel-time-plot')).filter((trace) => trace.role === 'picks').map((trace) => trace.type));
     expect([...types]).toEqual(['scattergl']);
+    // The WebGL layer really drew: no "WebGL is not supported" notice, and its canvas holds pixels.
+    expect(await page.textContent('#travel-time-plot')).not.toContain('WebGL is not supported');
+    const painted = await page.evaluate(() => {
+      const canvas = (globalThis as unknown as { document: { querySelector(selector: string): { toDataURL(): string } | null } }).document.querySelector('#travel-time-plot canvas.gl-canvas-context');
+      return canvas ? canvas.toDataURL().length : 0;
+    });
+    expect(painted, 'size of the WebGL canvas as a PNG data URL (an empty canvas is a few hundred bytes)').toBeGreaterThan(5000);
     await session.screenshot(page, '09-webgl-dense-line');
   });
 

@@ -53,7 +53,7 @@ const SHOT_IDS = BASE.shots.map((shot) => shot.id);
 const byLine = new Map(PICKS.map((pick) => [pick.line, pick]));
 const indexOfLine = (line: number): number => PICKS.findIndex((pick) => pick.line === line);
 
-const OPTIONS: TravelTimeOptions = { hiddenShots: new Set(), reductionVelocity: null, showLabels: false, dragMode: 'zoom', uiRevision: 'test' };
+const OPTIONS: TravelTimeOptions = { hiddenShots: new Set(), reductionVelocity: null, showLabels: false, dragMode: 'zoom', uiRevision: 'test', allowWebgl: true };
 const onlyShot = (id: string): Set<string> => new Set(SHOT_IDS.filter((other) => other !== id));
 
 // ---------------------------------------------------------------- reading traces
@@ -320,5 +320,12 @@ describe('travelTimeFigure: WebGL', () => {
     for (const role of ['fitted-lines', 'crossovers']) {
       for (const trace of tracesOf(above, role)) expect(trace.type, role).toBe('scatter');
     }
+  });
+
+  it('travelTimeFigure stays SVG above WEBGL_POINT_COUNT when WebGL is not allowed (a browser without it, a report image)', () => {
+    const noWebgl = travelTimeFigure(asClient(result), pickSet.picks, new Set(), { ...OPTIONS, allowWebgl: false });
+    expect(noWebgl.pointCount).toBe(WEBGL_POINT_COUNT + 100);
+    expect(noWebgl.webgl).toBe(false);
+    expect(new Set(noWebgl.data.map((trace) => trace.type))).toEqual(new Set(['scatter']));
   });
 });
