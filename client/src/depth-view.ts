@@ -19,7 +19,7 @@ export class DepthView {
   private mode: DepthMode = 'depth';
 
   constructor(private readonly fileStem: () => string) {
-    this.plot = h('div', { class: 'plot depth-plot', id: 'depth-plot', role: 'img', 'aria-label': 'Depth section: ground surface, refractor depths with their uncertainty, shots and layer velocities' });
+    this.plot = h('div', { class: 'plot depth-plot', id: 'depth-plot', role: 'figure', 'aria-label': 'Depth section: ground surface, refractor depths with their uncertainty, shots and layer velocities' });
     this.toolbar = h('div', { class: 'plot-toolbar', role: 'toolbar', 'aria-label': 'Depth section controls' });
     this.note = h('p', { class: 'plot-note' });
     this.element = h('section', { class: 'view depth-view', id: 'depth-view' }, this.toolbar, h('div', { class: 'plot-frame' }, this.plot), this.note);

@@ -67,7 +67,7 @@ export class TravelTimeView {
   private readonly webgl = webglAvailable();
 
   constructor(private readonly hooks: TravelTimeHooks) {
-    this.plot = h('div', { class: 'plot travel-time-plot', id: 'travel-time-plot', role: 'img', 'aria-label': 'Travel-time plot: picks, fitted branch lines, crossovers and residuals' });
+    this.plot = h('div', { class: 'plot travel-time-plot', id: 'travel-time-plot', role: 'figure', 'aria-label': 'Travel-time plot: picks, fitted branch lines, crossovers and residuals' });
     this.toolbar = h('div', { class: 'plot-toolbar', role: 'toolbar', 'aria-label': 'Travel-time plot controls' });
     this.shotsPanel = h('section', { class: 'side-panel shots-panel', 'aria-label': 'Shots shown' });
     this.editPanel = h('section', { class: 'side-panel edit-panel', id: 'edit-panel', 'aria-label': 'Branch editing' });

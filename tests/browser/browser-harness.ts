@@ -47,7 +47,8 @@ export interface BrowserSession {
   expectConsole(pattern: RegExp): void;
   /** Console errors not allowed by `expectConsole`, and allowances that were not used; both cleared. */
   takeUnexpected(): string[];
-  newPage(viewport?: { width: number; height: number }): Promise<{ page: Page; context: BrowserContext }>;
+  /** `bypassCSP`: let the test inject a script (the accessibility checker) despite the page's CSP. */
+  newPage(viewport?: { width: number; height: number }, options?: { bypassCSP?: boolean }): Promise<{ page: Page; context: BrowserContext }>;
   /** The visible screen (what a person sees first), or the whole page when `fullPage`. */
   screenshot(page: Page, name: string, fullPage?: boolean): Promise<string>;
   close(): Promise<void>;
@@ -85,8 +86,8 @@ export async function startBrowserSession(): Promise<BrowserSession> {
       allowed = [];
       return [...unexpected, ...unused];
     },
-    async newPage(viewport = LAPTOP) {
-      const context = await browser.newContext({ viewport, acceptDownloads: true, baseURL: baseUrl });
+    async newPage(viewport = LAPTOP, options = {}) {
+      const context = await browser.newContext({ viewport, acceptDownloads: true, baseURL: baseUrl, bypassCSP: options.bypassCSP ?? false });
       const page = await context.newPage();
       page.on('console', (message) => {
         if (message.type() === 'error') errors.push(`console: ${message.text()} (${page.url()})`);
