@@ -30,6 +30,8 @@ export interface TravelTimeOptions {
   readonly uiRevision: string;
   /** WebGL may be used (the browser has it; a report image is always SVG). */
   readonly allowWebgl: boolean;
+  /** A breakpoint drawn as a vertical line the user can drag (position along the line), or none. */
+  readonly breakpointMarker?: { readonly x: number; readonly label: string } | null;
 }
 
 export type Trace = Record<string, unknown>;
@@ -244,6 +246,13 @@ export function travelTimeFigure(result: Interpretation, picks: readonly StoredP
       zeroline: true, zerolinecolor: PLOT_THEME.muted, zerolinewidth: 1,
     },
     annotations,
+    shapes: options.breakpointMarker
+      ? [{
+          type: 'line', xref: 'x', yref: 'paper', x0: options.breakpointMarker.x, x1: options.breakpointMarker.x, y0: 0.3, y1: 1,
+          line: { color: PLOT_THEME.ink, width: 2, dash: 'dot' }, editable: true,
+          label: { text: options.breakpointMarker.label, textposition: 'end', font: { size: 11, color: PLOT_THEME.ink } },
+        }]
+      : [],
   };
   return { data, layout, webgl, pointCount };
 }

@@ -65,6 +65,8 @@ export class TravelTimeView {
   private listening = false;
   private drawing: Promise<void> = Promise.resolve();
   private readonly webgl = webglAvailable();
+  /** The breakpoint chosen in the panel (index into breakpointsOf), drawn on the plot to drag. */
+  private chosenBreakpoint = 0;
 
   constructor(private readonly hooks: TravelTimeHooks) {
     this.plot = h('div', { class: 'plot travel-time-plot', id: 'travel-time-plot', role: 'figure', 'aria-label': 'Travel-time plot: picks, fitted branch lines, crossovers and residuals' });
@@ -250,31 +252,52 @@ export class TravelTimeView {
   private breakpointForm(result: Interpretation): HTMLElement {
     const breakpoints = breakpointsOf(result);
     if (breakpoints.length === 0) return h('p', { class: 'quiet' }, 'No breakpoints: no side has two branches.');
+    if (this.chosenBreakpoint >= breakpoints.length) this.chosenBreakpoint = 0;
     const unit = result.units.distance;
     const label = (point: Breakpoint) => `${point.shot} ${point.side}: ${point.lowerBranch}|${point.upperBranch} between ${plain(point.lastLowerOffset)} and ${plain(point.firstUpperOffset)} ${unit}`;
-    const choice = h('select', { id: 'breakpoint-choice', 'aria-label': 'Breakpoint' }, ...breakpoints.map((point, k) => h('option', { value: String(k) }, label(point))));
+    const choice = h('select', { id: 'breakpoint-choice', 'aria-label': 'Breakpoint' },
+      ...breakpoints.map((point, k) => h('option', { value: String(k), selected: k === this.chosenBreakpoint }, label(point))));
     const offset = h('input', { type: 'number', step: 'any', class: 'narrow', id: 'breakpoint-offset', 'aria-label': `New breakpoint offset (${unit})` });
     const suggest = () => {
-      const point = breakpoints[Number(choice.value)];
+      const point = breakpoints[this.chosenBreakpoint];
       if (point) offset.value = String(Number(((point.lastLowerOffset + point.firstUpperOffset) / 2).toPrecision(6)));
     };
-    choice.addEventListener('change', suggest);
+    choice.addEventListener('change', () => {
+      this.chosenBreakpoint = Number(choice.value);
+      suggest();
+      void this.draw();
+    });
     suggest();
     const form = h('form', { class: 'breakpoint-form' },
       h('h4', {}, 'Move a breakpoint'),
       choice,
       h('div', { class: 'form-row' }, 'to offset ', offset, ` ${unit}`),
       h('button', { type: 'submit', disabled: this.busy, id: 'breakpoint-move' }, 'Move'),
+      h('p', { class: 'quiet small' }, 'Or drag the dotted line on the plot.'),
     );
     form.addEventListener('submit', (event) => {
       event.preventDefault();
-      const point = breakpoints[Number(choice.value)];
-      const value = Number(offset.value);
-      if (!point || !this.picks || !Number.isFinite(value)) return;
-      const edits = breakpointEdits(result, this.picks, point, value);
-      void this.edit(edits, `breakpoint ${point.shot} ${point.side} ${point.lowerBranch}|${point.upperBranch} to ${plain(value)} ${unit}`);
+      void this.moveBreakpoint(Number(offset.value));
     });
     return form;
+  }
+
+  /** The chosen breakpoint, where it is drawn (between its last lower and first upper pick). */
+  private breakpointMarker(): { x: number; label: string } | null {
+    if (!this.result || !this.editState.editable) return null;
+    const point = breakpointsOf(this.result)[this.chosenBreakpoint];
+    const shot = this.result.shots.find((candidate) => candidate.id === point?.shot);
+    if (!point || !shot || this.hiddenShots.has(shot.id)) return null;
+    const direction = point.side === 'forward' ? 1 : -1;
+    return { x: shot.sourceX + direction * ((point.lastLowerOffset + point.firstUpperOffset) / 2), label: `${point.shot} ${point.lowerBranch}|${point.upperBranch}` };
+  }
+
+  private async moveBreakpoint(offset: number): Promise<void> {
+    const result = this.result;
+    const point = result ? breakpointsOf(result)[this.chosenBreakpoint] : undefined;
+    if (!result || !point || !this.picks || !Number.isFinite(offset)) return;
+    const edits = breakpointEdits(result, this.picks, point, offset);
+    await this.edit(edits, `breakpoint ${point.shot} ${point.side} ${point.lowerBranch}|${point.upperBranch} to ${plain(offset)} ${result.units.distance}`);
   }
 
   private setSelection(lines: Set<number>): void {
@@ -346,7 +369,7 @@ export class TravelTimeView {
   private options(): TravelTimeOptions {
     return {
       hiddenShots: this.hiddenShots, reductionVelocity: this.reductionVelocity, showLabels: this.showLabels(), dragMode: this.dragMode,
-      uiRevision: this.uiRevision, allowWebgl: this.webgl,
+      uiRevision: this.uiRevision, allowWebgl: this.webgl, breakpointMarker: this.breakpointMarker(),
     };
   }
 
@@ -368,6 +391,7 @@ export class TravelTimeView {
     await Plotly.react(this.plot, figure.data, figure.layout, {
       responsive: true, displaylogo: false, scrollZoom: true,
       modeBarButtonsToRemove: ['toImage', 'select2d', 'lasso2d', 'zoom2d', 'pan2d'],
+      edits: { shapePosition: true },
     });
     if (first) this.listen();
     this.plot.dataset['drawn'] = this.uiRevision + ':' + String(this.result.summary.pickCount) + ':' + String(Date.now());
@@ -384,6 +408,15 @@ export class TravelTimeView {
       this.setSelection(lines);
     });
     plot.on('plotly_deselect', () => this.setSelection(new Set()));
+    // The dotted breakpoint line dragged: its new position along the line is the new breakpoint.
+    plot.on('plotly_relayout', (payload) => {
+      const moved = (payload as Record<string, unknown>)['shapes[0].x0'];
+      const point = this.result ? breakpointsOf(this.result)[this.chosenBreakpoint] : undefined;
+      const shot = this.result?.shots.find((candidate) => candidate.id === point?.shot);
+      if (typeof moved !== 'number' || !point || !shot) return;
+      const offset = (point.side === 'forward' ? 1 : -1) * (moved - shot.sourceX);
+      if (offset > 0) void this.moveBreakpoint(Number(offset.toPrecision(6)));
+    });
     plot.on('plotly_click', (payload) => {
       const point = (payload as { points?: { customdata?: unknown }[] }).points?.[0];
       if (!point || typeof point.customdata !== 'number') return;

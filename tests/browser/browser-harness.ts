@@ -119,7 +119,7 @@ export interface PageGlobals {
 export interface PlotElement {
   readonly data?: { meta?: { role?: string; branch?: number }; x?: unknown[]; y?: unknown[]; customdata?: unknown[]; type?: string }[];
   readonly layout?: Record<string, unknown>;
-  readonly _fullLayout?: Record<string, { _offset: number; l2p: (value: number) => number } | undefined>;
+  readonly _fullLayout?: Record<string, { _offset: number; _length: number; l2p: (value: number) => number } | undefined>;
   getBoundingClientRect(): { left: number; top: number };
 }
 

@@ -226,6 +226,41 @@ describe('the browser client', () => {
     expect(countsAfter).toMatch(/\(1\d picks, assigned by hand\)/);
   });
 
+  it('moves a breakpoint by dragging its dotted line on the plot', async () => {
+    const revision = await revisionShown();
+    const options = await page.$$eval('#breakpoint-choice option', (items) => items.map((item) => item.textContent ?? ''));
+    await page.selectOption('#breakpoint-choice', String(options.findIndex((text) => text.startsWith('A-W forward: 2|3'))));
+    // The chosen breakpoint is drawn on the plot (the choice may already have been this one).
+    await page.waitForFunction(() => {
+      const layout = (globalThis as unknown as PageGlobals).document.querySelector('#travel-time-plot')?.layout as { shapes?: { label?: { text?: string } }[] } | undefined;
+      return layout?.shapes?.[0]?.label?.text === 'A-W 2|3';
+    });
+    const line = await page.evaluate(() => {
+      const plot = (globalThis as unknown as PageGlobals).document.querySelector('#travel-time-plot');
+      const shape = (plot?.layout as { shapes?: { x0: number }[] } | undefined)?.shapes?.[0];
+      const xaxis = plot?._fullLayout?.['xaxis'];
+      const yaxis = plot?._fullLayout?.['yaxis'];
+      if (!plot || !shape || !xaxis || !yaxis) return null;
+      const box = plot.getBoundingClientRect();
+      return { x0: shape.x0, from: box.left + xaxis._offset + xaxis.l2p(shape.x0), to: box.left + xaxis._offset + xaxis.l2p(25), y: box.top + yaxis._offset + yaxis._length / 2 };
+    });
+    expect(line, 'the chosen breakpoint is drawn as a line on the plot').not.toBeNull();
+    // Between the last branch-2 pick (28.5 m) and the first branch-3 pick (30 m) after the move above.
+    expect(line!.x0).toBeCloseTo(29.25, 6);
+    const countsBefore = await page.textContent('tr[data-shot="A-W"][data-side="forward"]');
+    await page.mouse.move(line!.from, line!.y);
+    await page.mouse.down();
+    await page.mouse.move((line!.from + line!.to) / 2, line!.y, { steps: 5 });
+    await page.mouse.move(line!.to, line!.y, { steps: 5 });
+    await page.mouse.up();
+    await waitForRevision(revision + 1);
+    const countsAfter = await page.textContent('tr[data-shot="A-W"][data-side="forward"]');
+    expect(countsAfter).not.toEqual(countsBefore);
+    // Dragged to 25 m: branch 2 ends at the pick at 24 m (receivers every 1.5 m from 1.5 m).
+    const breakpoints = await page.$$eval('#breakpoint-choice option', (items) => items.map((item) => item.textContent ?? ''));
+    expect(breakpoints.find((text) => text.startsWith('A-W forward: 2|3'))).toContain('between 24 and 25.5 m');
+  });
+
   it('toggles shots and switches to reduced time', async () => {
     const full = (await traceRoles(page, '#travel-time-plot')).filter((trace) => trace.role === 'picks').reduce((sum, trace) => sum + trace.points, 0);
     let stamp = await page.getAttribute('#travel-time-plot', 'data-drawn');
