@@ -1,7 +1,8 @@
 /**
  * Browser tests' harness: a real slopebreak server on a loopback port with the sample surveys
  * loaded (as the README's main-job command starts it), and Debian's Chromium driven by
- * playwright-core. Every page's console errors and uncaught exceptions are collected, so a test
+ * playwright-core. Every page's console errors and uncaught exceptions are collected, and so is
+ * every request to anywhere but this server (the page must work offline, with no CDN), so a test
  * can assert that there were none. Screenshots go to `tests/browser/screenshots/` (not committed).
  *
  * Chromium: `/usr/bin/chromium` from Debian's `chromium` package (installed by `.ci/run`), or
@@ -88,6 +89,13 @@ export async function startBrowserSession(): Promise<BrowserSession> {
     },
     async newPage(viewport = LAPTOP, options = {}) {
       const context = await browser.newContext({ viewport, acceptDownloads: true, baseURL: baseUrl, bypassCSP: options.bypassCSP ?? false });
+      // Offline on the office network: any request that leaves this server is refused and reported.
+      await context.route('**/*', (route) => {
+        const url = route.request().url();
+        if (url.startsWith(`${baseUrl}/`) || url.startsWith('data:') || url.startsWith('blob:')) return route.continue();
+        errors.push(`request outside the service: ${url}`);
+        return route.abort();
+      });
       const page = await context.newPage();
       page.on('console', (message) => {
         if (message.type() === 'error') errors.push(`console: ${message.text()} (${page.url()})`);
