@@ -19,6 +19,7 @@ function revisionJson(revision: RevisionSummary) {
   return {
     number: revision.number,
     surveyVersion: revision.surveyVersion,
+    picksState: revision.picksState,
     createdAt: revision.createdAt,
     options: JSON.parse(revision.optionsJson) as InterpretOptionsInput,
   };

@@ -58,7 +58,12 @@ export function pickRoutes(context: RouteContext): Router {
     const id = surveyId(request);
     const survey = store.getSurvey(id);
     const picks = currentPicks(store, id);
-    response.set('ETag', versionTag(survey.version)).json({ uploadId: picks.uploadId, version: survey.version, edits: picks.edits, pickSet: picks.pickSet });
+    response.set('ETag', versionTag(survey.version)).json({
+      uploadId: picks.uploadId, version: survey.version,
+      /** Changes with every upload and branch edit only; a revision with the same state was computed from these picks. */
+      picksState: store.picksState(id),
+      edits: picks.edits, pickSet: picks.pickSet,
+    });
   });
 
   router.get('/api/surveys/:id/picks.csv', (request, response) => {

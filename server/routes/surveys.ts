@@ -22,8 +22,14 @@ export const CreateSurveyBody = z.strictObject({
 });
 
 export const UpdateSurveyBody = z
-  .strictObject({ name: SurveyName.optional(), description: Description.optional(), version: Version.optional() })
-  .refine((body) => body.name !== undefined || body.description !== undefined, { message: 'give a new name, a new description or both' });
+  .strictObject({
+    name: SurveyName.optional(),
+    description: Description.optional(),
+    /** Display units of later interpretations (engineering: m, ms, m/s; crustal: km, s, km/s). */
+    scale: z.enum(['engineering', 'crustal']).optional(),
+    version: Version.optional(),
+  })
+  .refine((body) => body.name !== undefined || body.description !== undefined || body.scale !== undefined, { message: 'give a new name, description or scale' });
 
 export const DeleteSurveyBody = z.strictObject({ version: Version.optional() });
 
@@ -65,7 +71,7 @@ export function surveyRoutes(context: RouteContext): Router {
     const id = surveyId(request);
     const body = parseRequest(UpdateSurveyBody, request.body ?? {}, 'body');
     const version = expectedVersion(request, body.version);
-    sendSurvey(response, store.renameSurvey(id, { name: body.name, description: body.description }, version));
+    sendSurvey(response, store.renameSurvey(id, { name: body.name, description: body.description, scale: body.scale }, version));
   });
 
   router.delete('/api/surveys/:id', (request, response) => {

@@ -99,8 +99,18 @@ UPDATE branch_edits SET pick_set_id = (
 CREATE INDEX branch_edits_by_pick_set ON branch_edits (pick_set_id, sequence);
 `;
 
+/**
+ * Revisions record the picks they were computed from — the pick set and the last branch edit on it
+ * (`<pick set id>:<edit sequence>`) — so a client can tell "the picks changed since this revision"
+ * from "the survey was renamed". Revisions made before this migration have none (NULL).
+ */
+const revisionsRecordPicksState = `
+ALTER TABLE revisions ADD COLUMN picks_state TEXT;
+`;
+
 /** All migrations this code knows, oldest first. */
 export const MIGRATIONS: readonly Migration[] = [
   { version: 1, name: 'surveys, uploads, pick sets, branch edits and revisions', sql: initialSchema },
   { version: 2, name: 'branch edits belong to the pick set they were made on', sql: editsBelongToPickSets },
+  { version: 3, name: 'revisions record the picks they were computed from', sql: revisionsRecordPicksState },
 ];

@@ -65,6 +65,11 @@ export interface RevisionSummary {
   readonly optionsJson: string;
   /** The survey version whose inputs the interpretation was computed from. */
   readonly surveyVersion: number;
+  /**
+   * The picks it was computed from, `<pick set id>:<last edit sequence on it>` (see `picksState`);
+   * null for revisions stored before migration 3.
+   */
+  readonly picksState: string | null;
   readonly createdAt: string;
 }
 
@@ -81,6 +86,8 @@ export interface NewSurvey {
 export interface SurveyChanges {
   readonly name?: string;
   readonly description?: string;
+  /** Display units: engineering or crustal. */
+  readonly scale?: DisplayScale;
 }
 
 export interface PickUpload {
@@ -116,7 +123,7 @@ const surveyColumns = 'id, name, description, display_scale, created_at, updated
 const uploadInfoColumns =
   'id, survey_id AS surveyId, file_name AS fileName, media_type AS mediaType, byte_size AS byteSize, sha256, created_at AS createdAt';
 const revisionSummaryColumns =
-  'survey_id AS surveyId, number, options_json AS optionsJson, survey_version AS surveyVersion, created_at AS createdAt';
+  'survey_id AS surveyId, number, options_json AS optionsJson, survey_version AS surveyVersion, picks_state AS picksState, created_at AS createdAt';
 
 function surveyFromRow(row: SurveyRow): SurveyRecord {
   return {
@@ -221,12 +228,12 @@ export function createSurveyStore(db: Database, options: StoreOptions = {}) {
     `SELECT ${surveyColumns} FROM surveys WHERE instr(lower(name), lower(?)) > 0 ORDER BY created_at, id`,
   );
 
-  const updateNaming = db.prepare<[string | null, string | null, string, string, number]>(
-    `UPDATE surveys SET name = coalesce(?, name), description = coalesce(?, description),
+  const updateNaming = db.prepare<[string | null, string | null, string | null, string, string, number]>(
+    `UPDATE surveys SET name = coalesce(?, name), description = coalesce(?, description), display_scale = coalesce(?, display_scale),
        version = version + 1, updated_at = ? WHERE id = ? AND version = ?`,
   );
   const renameOne = writeTransaction((surveyId: string, changes: SurveyChanges, expectedVersion: number): SurveyRecord => {
-    const result = updateNaming.run(changes.name ?? null, changes.description ?? null, now(), surveyId, expectedVersion);
+    const result = updateNaming.run(changes.name ?? null, changes.description ?? null, changes.scale ?? null, now(), surveyId, expectedVersion);
     if (result.changes === 0) refuseConditionalWrite(surveyId, expectedVersion);
     return requireSurvey(surveyId);
   });
@@ -292,12 +299,17 @@ export function createSurveyStore(db: Database, options: StoreOptions = {}) {
      FROM branch_edits WHERE survey_id = ? ORDER BY sequence`,
   );
 
+  const selectPicksState = db.prepare<[string], string>(
+    `SELECT p.id || ':' || (SELECT coalesce(max(e.sequence), 0) FROM branch_edits e WHERE e.survey_id = p.survey_id AND e.pick_set_id = p.id)
+     FROM pick_sets p WHERE p.survey_id = ? ORDER BY p.id DESC LIMIT 1`,
+  ).pluck();
+
   const nextRevisionNumber = db.prepare<[string], number>(
     'SELECT coalesce(max(number), 0) + 1 FROM revisions WHERE survey_id = ?',
   ).pluck();
-  const insertRevision = db.prepare<[string, number, string, string, number, string]>(
-    `INSERT INTO revisions (survey_id, number, options_json, result_json, survey_version, created_at)
-     VALUES (?, ?, ?, ?, ?, ?)`,
+  const insertRevision = db.prepare<[string, number, string, string, number, string | null, string]>(
+    `INSERT INTO revisions (survey_id, number, options_json, result_json, survey_version, picks_state, created_at)
+     VALUES (?, ?, ?, ?, ?, ?, ?)`,
   );
   const addOneRevision = writeTransaction(
     (surveyId: string, revision: NewRevision, expectedVersion: number | undefined): RevisionSummary => {
@@ -311,9 +323,10 @@ export function createSurveyStore(db: Database, options: StoreOptions = {}) {
         number: nextRevisionNumber.get(surveyId) ?? 1,
         optionsJson: revision.optionsJson,
         surveyVersion,
+        picksState: selectPicksState.get(surveyId) ?? null,
         createdAt: now(),
       };
-      insertRevision.run(surveyId, summary.number, revision.optionsJson, revision.resultJson, surveyVersion, summary.createdAt);
+      insertRevision.run(surveyId, summary.number, revision.optionsJson, revision.resultJson, surveyVersion, summary.picksState, summary.createdAt);
       return summary;
     },
   );
@@ -353,8 +366,8 @@ export function createSurveyStore(db: Database, options: StoreOptions = {}) {
      * is a programming error and throws before anything is written.
      */
     renameSurvey(surveyId: string, changes: SurveyChanges, expectedVersion: number): SurveyRecord {
-      if (changes.name === undefined && changes.description === undefined) {
-        throw new Error(`renameSurvey on survey ${surveyId}: give a new name, a new description or both`);
+      if (changes.name === undefined && changes.description === undefined && changes.scale === undefined) {
+        throw new Error(`renameSurvey on survey ${surveyId}: give a new name, description or scale`);
       }
       return renameOne(surveyId, changes, expectedVersion);
     },
@@ -374,6 +387,16 @@ export function createSurveyStore(db: Database, options: StoreOptions = {}) {
     },
 
     /** The newest pick set; NotFoundError('pick set') when nothing was uploaded yet. */
+    /**
+     * Which picks are current: `<pick set id>:<last edit sequence on it>` (0 without edits), or null
+     * when the survey has no pick set. Changes with every upload and every branch edit, and only
+     * then; a revision stores the state it was computed from.
+     */
+    picksState(surveyId: string): string | null {
+      requireSurvey(surveyId);
+      return selectPicksState.get(surveyId) ?? null;
+    },
+
     getCurrentPickSet(surveyId: string): PickSetRecord {
       requireSurvey(surveyId);
       const pickSet = selectCurrentPickSet.get(surveyId);

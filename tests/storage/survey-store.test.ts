@@ -85,7 +85,7 @@ describe('createSurveyStore: surveys', () => {
     expect(renamed.updatedAt > created.updatedAt).toBe(true);
     const described = store.renameSurvey(created.id, { description: '' }, renamed.version);
     expect(described).toMatchObject({ name: 'Line A (north)', description: '', version: 3 });
-    expect(() => store.renameSurvey(created.id, {}, described.version)).toThrow(/give a new name, a new description or both/);
+    expect(() => store.renameSurvey(created.id, {}, described.version)).toThrow(/give a new name, description or scale/);
   });
 
   it('renameSurvey against an old version throws StaleVersionError with the current version and changes nothing', () => {
