@@ -160,7 +160,11 @@ export interface Survey {
 export interface RevisionSummary {
   readonly number: number;
   readonly surveyVersion: number;
+  /** The picks it was computed from (null for revisions stored before the server recorded it). */
+  readonly picksState: string | null;
   readonly createdAt: string;
+  /** The options it was run with, sent again when an edit re-interprets. */
+  readonly options: Readonly<Record<string, unknown>>;
 }
 
 export interface Revision extends RevisionSummary {
@@ -182,6 +186,8 @@ export interface StoredPick {
 
 export interface CurrentPicks {
   readonly version: number;
+  /** Changes with every upload and branch edit only (compare with a revision's `picksState`). */
+  readonly picksState: string | null;
   readonly pickSet: { readonly picks: readonly StoredPick[]; readonly shotIds: readonly string[] };
 }
 

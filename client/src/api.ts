@@ -7,6 +7,9 @@ import type {
   BranchEdit, CurrentPicks, Interpretation, Revision, RevisionSummary, Scale, Survey, TableProblem, UploadReply,
 } from './api-types.js';
 
+/** An upload that has not finished after this long is given up, ms (a 50 MiB table over a slow office link). */
+const UPLOAD_TIMEOUT_MS = 10 * 60_000;
+
 /** Where the access token is kept in this browser (set from the token dialog). */
 const TOKEN_KEY = 'slopebreak.accessToken';
 
@@ -89,15 +92,16 @@ export const api = {
   listSurveys: (name = '') => request<{ surveys: Survey[] }>('GET', `/api/surveys${name ? `?name=${encodeURIComponent(name)}` : ''}`).then((reply) => reply.surveys),
   getSurvey: (id: string) => request<Survey>('GET', survey(id)),
   createSurvey: (name: string, scale?: Scale) => request<Survey>('POST', '/api/surveys', { body: { name, ...(scale ? { scale } : {}) } }),
-  renameSurvey: (id: string, name: string, version: number) => request<Survey>('PATCH', survey(id), { body: { name }, version }),
+  updateSurvey: (id: string, changes: { name?: string; scale?: Scale }, version: number) => request<Survey>('PATCH', survey(id), { body: changes, version }),
   deleteSurvey: (id: string, version: number) => request<void>('DELETE', survey(id), { version }),
   listRevisions: (id: string) => request<{ revisions: RevisionSummary[] }>('GET', `${survey(id)}/revisions`).then((reply) => reply.revisions),
   getRevision: (id: string, number: number) => request<Revision>('GET', `${survey(id)}/revisions/${number}`),
   currentPicks: (id: string) => request<CurrentPicks>('GET', `${survey(id)}/picks`),
   addBranchEdits: (id: string, edits: readonly BranchEdit[], version: number) =>
     request<{ version: number }>('POST', `${survey(id)}/branch-edits`, { body: { edits }, version }),
-  interpret: (id: string, version: number, scale?: Scale) =>
-    request<Revision & { result: Interpretation }>('POST', `${survey(id)}/interpretations`, { body: scale ? { scale } : {}, version }),
+  /** Interpret the current picks as a new revision, with `options` (those of the revision being edited, to keep its scale and fit). */
+  interpret: (id: string, version: number, options: Readonly<Record<string, unknown>> = {}) =>
+    request<Revision & { result: Interpretation }>('POST', `${survey(id)}/interpretations`, { body: options, version }),
   layersCsvUrl: (id: string, number: number) => `${survey(id)}/revisions/${number}/layers.csv`,
   picksCsvUrl: (id: string) => `${survey(id)}/picks.csv`,
 };
@@ -115,11 +119,21 @@ export function uploadPicks(id: string, file: File, version: number, onProgress:
       if (event.lengthComputable) onProgress(event.loaded / event.total);
     });
     xhr.addEventListener('load', () => {
-      const response = new Response(xhr.responseText, { status: xhr.status, statusText: xhr.statusText });
-      if (xhr.status >= 200 && xhr.status < 300) resolve(JSON.parse(xhr.responseText) as UploadReply);
-      else void errorFrom(response).then(reject);
+      if (xhr.status >= 200 && xhr.status < 300) {
+        try {
+          resolve(JSON.parse(xhr.responseText) as UploadReply);
+        } catch {
+          reject(new ServiceError(xhr.status, 'not-json', 'the server accepted the upload but its answer could not be read', 'reload the page to see whether the survey is there', {}));
+        }
+        return;
+      }
+      void errorFrom(new Response(xhr.responseText, { status: xhr.status, statusText: xhr.statusText })).then(reject);
     });
-    xhr.addEventListener('error', () => reject(new ServiceError(0, 'unreachable', 'the upload did not reach the server', 'check the connection and try again', {})));
+    const lost = (what: string) => () => reject(new ServiceError(0, 'unreachable', `the upload ${what}`, 'check the connection to the server and try again', {}));
+    xhr.addEventListener('error', lost('did not reach the server'));
+    xhr.addEventListener('abort', lost('was stopped'));
+    xhr.addEventListener('timeout', lost('took too long'));
+    xhr.timeout = UPLOAD_TIMEOUT_MS;
     const form = new FormData();
     form.append('file', file, file.name);
     xhr.send(form);

@@ -7,18 +7,21 @@
 
 export interface BranchStyle {
   readonly color: string;
+  /** Text drawn on the colour (branch chips): black or white, whichever reads at WCAG AA (≥ 4.5:1). */
+  readonly text: '#000000' | '#ffffff';
   readonly symbol: string;
+  /** Fitted lines differ by dash as well as colour. */
   readonly dash: 'solid' | 'dash' | 'dot' | 'dashdot' | 'longdash' | 'longdashdot';
 }
 
 const STYLES: readonly BranchStyle[] = [
-  { color: '#0072B2', symbol: 'circle', dash: 'solid' },
-  { color: '#D55E00', symbol: 'square', dash: 'solid' },
-  { color: '#009E73', symbol: 'diamond', dash: 'solid' },
-  { color: '#CC79A7', symbol: 'triangle-up', dash: 'solid' },
-  { color: '#E69F00', symbol: 'cross', dash: 'solid' },
-  { color: '#56B4E9', symbol: 'triangle-down', dash: 'solid' },
-  { color: '#000000', symbol: 'pentagon', dash: 'solid' },
+  { color: '#0072B2', text: '#ffffff', symbol: 'circle', dash: 'solid' },
+  { color: '#D55E00', text: '#000000', symbol: 'square', dash: 'dash' },
+  { color: '#009E73', text: '#000000', symbol: 'diamond', dash: 'dot' },
+  { color: '#CC79A7', text: '#000000', symbol: 'triangle-up', dash: 'dashdot' },
+  { color: '#E69F00', text: '#000000', symbol: 'cross', dash: 'longdash' },
+  { color: '#56B4E9', text: '#000000', symbol: 'triangle-down', dash: 'longdashdot' },
+  { color: '#000000', text: '#ffffff', symbol: 'pentagon', dash: 'solid' },
 ];
 
 export function branchStyle(index: number): BranchStyle {
@@ -28,6 +31,7 @@ export function branchStyle(index: number): BranchStyle {
 /** Picks the user excluded from every fit: hollow grey. */
 export const EXCLUDED_STYLE = { color: '#8a8a8a', symbol: 'x-thin-open' } as const;
 /** Picks that ended on no branch: hollow dark. */
-export const UNASSIGNED_STYLE = { color: '#3d3d3d', symbol: 'circle-open' } as const;
+export const UNASSIGNED_STYLE = { color: '#3d3d3d', symbol: 'hexagon-open' } as const;
 /** The selection ring drawn over selected picks. */
-export const SELECTED_STYLE = { color: '#111111', symbol: 'circle-open' } as const;
+/** Ringed in magenta-red, unlike the black crossover rings. */
+export const SELECTED_STYLE = { color: '#C2185B', symbol: 'circle-open' } as const;

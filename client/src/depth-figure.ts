@@ -6,7 +6,7 @@
  */
 import type { Interpretation, RefractorResult, StoredPick } from './api-types.js';
 import { branchStyle } from './branch-style.js';
-import { displayFactors, plain, quantity } from './format.js';
+import { displayFactors, plain, plotlyText, quantity } from './format.js';
 import { PLOT_THEME } from './plot-theme.js';
 import type { Figure, Trace } from './travel-time-figure.js';
 
@@ -94,7 +94,7 @@ export function depthFigure(result: Interpretation, picks: readonly StoredPick[]
       fill: 'toself', fillcolor: `${color}22`, line: { width: 0 }, hoverinfo: 'skip', showlegend: false, meta: { role: 'survey-band', layer: layer.index },
     });
     data.push({
-      type: 'scatter', mode: 'lines', name: `top of layer ${layer.index} (survey, ${quantity(depth, se, units.distance)})`, legendgroup: `s${layer.index}`,
+      type: 'scatter', mode: 'lines', name: `top of layer ${layer.index}, all sides combined (${shortMethodName(layer.depthFrom.method)}): ${quantity(depth, se, units.distance)}`, legendgroup: `s${layer.index}`,
       x: boundaryX, y: boundaryX.map((x) => toY(x, depth)), line: { color, width: 1.5, dash: 'dash' },
       hovertemplate: `top of layer ${layer.index}: ${quantity(depth, se, units.distance)} below ground (all shot sides combined)<extra></extra>`,
       meta: { role: 'survey-boundary', layer: layer.index },
@@ -107,9 +107,12 @@ export function depthFigure(result: Interpretation, picks: readonly StoredPick[]
     const color = branchStyle(refractor.interface + 1).color;
     const points = [...refractor.points].sort((left, right) => left.x - right.x);
     const x = points.map((point) => point.x);
-    const y = points.map((point) => toY(point.x, point.depth));
-    const upper = points.map((point) => toY(point.x, point.depth - point.depthSE));
-    const lower = points.map((point) => toY(point.x, point.depth + point.depthSE));
+    // The service's own elevation of each point when it gives one (source elevation − depth).
+    const y = points.map((point) => (useElevation && point.elevation !== null ? point.elevation : toY(point.x, point.depth)));
+    // One SE shallower and deeper than each point: up is + in elevation, − in depth.
+    const up = useElevation ? 1 : -1;
+    const upper = points.map((point, k) => y[k]! + up * point.depthSE);
+    const lower = points.map((point, k) => y[k]! - up * point.depthSE);
     // Positions under every receiver (delay-time methods) are joined into a line with a band;
     // positions under each shot side only are shown as they are, without joining them.
     const alongLine = points.length > 1 && points.filter((point) => point.shot === null).length * 2 > points.length;
@@ -126,7 +129,7 @@ export function depthFigure(result: Interpretation, picks: readonly StoredPick[]
       x, y, line: { color, width: 1.5 },
       marker: { color, symbol: branchStyle(refractor.interface + 1).symbol, size: 9 },
       error_y: { type: 'data', array: points.map((point) => point.depthSE), visible: true, color, thickness: 1.5, width: 5 },
-      text: points.map((point) => `${point.shot ? `shot ${point.shot}${point.side ? `, ${point.side}` : ''}: ` : ''}depth ${quantity(point.depth, point.depthSE, units.distance)}` +
+      text: points.map((point) => `${point.shot ? `shot ${plotlyText(point.shot)}${point.side ? `, ${point.side}` : ''}: ` : ''}depth ${quantity(point.depth, point.depthSE, units.distance)}` +
         `${point.elevation !== null ? `, elevation ${plain(point.elevation)} ${units.distance}` : ''}`),
       hovertemplate: '%{text}<extra></extra>',
       meta: { role: 'refractor', interface: refractor.interface },
@@ -138,7 +141,7 @@ export function depthFigure(result: Interpretation, picks: readonly StoredPick[]
   data.push({
     type: 'scatter', mode: 'markers+text', name: 'shots', x: shotX,
     y: result.shots.map((shot) => (useElevation && shot.sourceElevation !== null ? shot.sourceElevation : groundAt(shot.sourceX))),
-    text: result.shots.map((shot) => shot.id), textposition: 'top center', textfont: { size: 11, color: PLOT_THEME.ink },
+    text: result.shots.map((shot) => plotlyText(shot.id)), textposition: 'top center', textfont: { size: 11, color: PLOT_THEME.ink },
     marker: { symbol: 'star', size: 12, color: PLOT_THEME.ink }, hovertemplate: 'shot %{text} at %{x}<extra></extra>', cliponaxis: false,
     meta: { role: 'shots' },
   });

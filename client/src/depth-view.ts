@@ -61,7 +61,7 @@ export class DepthView {
   private renderNote(): void {
     const refractor = this.result?.refractors.find((entry) => entry.method === this.method);
     replaceChildren(this.note,
-      refractor ? `Markers: ${refractor.method}, ±1 standard error. ` : 'No refractor depths could be computed for this interpretation. ',
+      refractor ? `Markers: ${refractor.method}, ±1 standard error; a shot side without the branches that method needs (an off-end shot has no direct wave, so no crossover distance) has no marker. ` : 'No refractor depths could be computed for this interpretation. ',
       'Dashed lines and light bands: the survey\u2019s combined layer tops, ±1 standard error. Depths are an interpretation: confirm them with boreholes before they are used.');
   }
 
@@ -74,7 +74,10 @@ export class DepthView {
     if (!this.result) return;
     const Plotly = await loadPlotly();
     const figure = depthFigure(this.result, this.picks, this.method, this.mode, this.uiRevision);
-    await Plotly.react(this.plot, figure.data, figure.layout, { responsive: true, displaylogo: false, modeBarButtonsToRemove: ['toImage'] });
+    await Plotly.react(this.plot, figure.data, figure.layout, {
+      responsive: true, displaylogo: false, modeBarButtonsToRemove: ['toImage', 'sendDataToCloud'],
+      showSendToCloud: false, showEditInChartStudio: false, showLink: false,
+    });
     this.plot.dataset['drawn'] = `${this.method ?? ''}:${this.mode}:${Date.now()}`;
   }
 

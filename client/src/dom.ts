@@ -32,3 +32,25 @@ export function replaceChildren(parent: Element, ...children: Child[]): void {
   parent.replaceChildren();
   append(parent, ...children);
 }
+
+/** Attributes that name a control across re-renders (besides its id). */
+const CONTROL_KEYS = ['data-assign', 'data-drag-mode', 'data-shot-toggle', 'data-view'] as const;
+
+/**
+ * Run `render` (which rebuilds `container`'s children) and give the keyboard focus back to the
+ * control that had it, found again by id or by one of `CONTROL_KEYS`: a keyboard user stays where
+ * they were instead of being sent back to the top of the page.
+ */
+export function keepingFocus(container: Element, render: () => void): void {
+  const active = document.activeElement;
+  let selector: string | null = null;
+  if (active instanceof HTMLElement && container.contains(active)) {
+    if (active.id) selector = `#${CSS.escape(active.id)}`;
+    else {
+      const key = CONTROL_KEYS.find((name) => active.hasAttribute(name));
+      if (key) selector = `[${key}="${CSS.escape(active.getAttribute(key) ?? '')}"]`;
+    }
+  }
+  render();
+  if (selector) container.querySelector<HTMLElement>(selector)?.focus();
+}

@@ -46,6 +46,23 @@ export function sideLabel(side: 'forward' | 'reverse'): string {
   return side === 'forward' ? 'forward' : 'reverse';
 }
 
+/** Branch n in the trade's words: 1 is the direct wave, n ≥ 2 the head wave of refractor n − 1 (top of layer n). */
 export function branchLabel(index: number): string {
-  return index === 1 ? 'direct wave (1)' : `refractor ${index - 1} head wave (${index})`;
+  return index === 1 ? 'direct wave' : `refractor ${index - 1}`;
+}
+
+/** A date and time as `2026-12-02 14:05` (local time): unambiguous in every locale. */
+export function shortDateTime(iso: string): string {
+  const date = new Date(iso);
+  if (Number.isNaN(date.getTime())) return iso;
+  const two = (value: number) => String(value).padStart(2, '0');
+  return `${date.getFullYear()}-${two(date.getMonth() + 1)}-${two(date.getDate())} ${two(date.getHours())}:${two(date.getMinutes())}`;
+}
+
+/**
+ * Text for plotly's labels and hover boxes, which read a small subset of HTML: `&`, `<` and `>`
+ * escaped, so a shot named `<a href=…>` is shown as written, never as a link or a style.
+ */
+export function plotlyText(text: string): string {
+  return text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
 }

@@ -8,6 +8,7 @@ import { api } from './api.js';
 import type { Interpretation, Revision, Survey } from './api-types.js';
 import { depthFigure, refractorMethods } from './depth-figure.js';
 import { h, replaceChildren } from './dom.js';
+import { shortDateTime } from './format.js';
 import { loadPlotly } from './plotly-loader.js';
 import { cautionList, layerTable, referenceList, shotTable, surveyWarnings } from './results-view.js';
 import { paths } from './routes.js';
@@ -39,7 +40,7 @@ function factsTable(survey: Survey, revision: Revision, latest: number): HTMLTab
     h('tbody', {},
       row('Survey', survey.name),
       survey.description ? row('Description', survey.description) : null,
-      row('Revision', `${revision.number} of ${latest}${revision.number < latest ? ' (a newer revision exists)' : ''}, made ${new Date(revision.createdAt).toLocaleString()}`),
+      row('Revision', `${revision.number} of ${latest}${revision.number < latest ? ' (a newer revision exists)' : ''}, made ${shortDateTime(revision.createdAt)}`),
       row('Pick table', result.source ?? '—'),
       row('Data', `${result.summary.pickCount} picks, ${result.summary.shotCount} shots, ${result.summary.shotSideCount} shot sides, ${result.summary.excludedPickCount} excluded`),
       row('Method', `branches by ${result.options.fitMethod} line fits; depths by the intercept-time and crossover-distance methods (plane layers under each shot side), combined over the survey${result.options.bootstrapReplicates > 0 ? `; bootstrap of ${result.options.bootstrapReplicates} replicates` : ''}`),
@@ -61,7 +62,7 @@ export async function renderReport(root: HTMLElement, surveyId: string, revision
     const latest = revisions[revisions.length - 1]?.number ?? revision.number;
     // Excluded picks are drawn only when the stored picks are the ones this revision was made from.
     const storedPicks = picks !== null && picks.version === revision.surveyVersion ? picks.pickSet.picks : null;
-    const travel = travelTimeFigure(result, storedPicks, new Set(), { hiddenShots: new Set(), reductionVelocity: null, showLabels: true, dragMode: 'zoom', uiRevision: 'report', allowWebgl: false });
+    const travel = travelTimeFigure(result, storedPicks, new Set(), { hiddenShots: new Set(), reductionVelocity: null, showLabels: result.shots.length <= 5, dragMode: 'zoom', uiRevision: 'report', allowWebgl: false });
     const method = refractorMethods(result)[0] ?? null;
     const depth = depthFigure(result, storedPicks, method, 'depth', 'report');
     const [travelImage, depthImage] = [
@@ -90,7 +91,7 @@ export async function renderReport(root: HTMLElement, surveyId: string, revision
         h('p', { class: 'plot-note' }, `${result.warnings.length} in all. Warnings about a layer are printed under it in the layer table, those about a shot under it in the shot table; the rest concern the whole survey:`),
         surveyWarnings(result)),
       referenceList(result),
-      h('footer', { class: 'report-foot' }, `${result.software.name} ${result.software.version} · survey ${survey.name} · revision ${revision.number} · printed ${new Date().toLocaleString()}`),
+      h('footer', { class: 'report-foot' }, `${result.software.name} ${result.software.version} · survey ${survey.name} · revision ${revision.number} · printed ${shortDateTime(new Date().toISOString())}`),
     ));
     root.dataset['ready'] = 'true';
   } catch (error) {

@@ -7,22 +7,24 @@
 import type { Interpretation, ShotResult, WarningResult } from './api-types.js';
 import { branchStyle } from './branch-style.js';
 import { h } from './dom.js';
-import { quantity, withError } from './format.js';
+import { branchLabel, plain, quantity, withError } from './format.js';
 
 const LEVEL_WORDS: Record<WarningResult['level'], string> = { caution: 'Caution', warning: 'Warning', info: 'Note' };
 
+/** One warning: its level in words and its message (which names the shot, side, branch or layer itself). */
 export function warningItem(warning: WarningResult): HTMLLIElement {
-  const about = [
-    warning.shot ? `shot ${warning.shot}` : null,
-    warning.side ?? null,
-    warning.branch !== undefined ? `branch ${warning.branch}` : null,
-    warning.layer !== undefined ? `layer ${warning.layer}` : null,
-  ].filter(Boolean).join(' · ');
-  return h('li', { class: `warning level-${warning.level}`, 'data-code': warning.code },
+  return h('li', { class: `warning level-${warning.level}`, 'data-code': warning.code, title: `code ${warning.code} (see the README's table of warnings)` },
     h('span', { class: 'warning-level' }, LEVEL_WORDS[warning.level]),
-    about ? h('span', { class: 'warning-about' }, about) : null,
     h('span', { class: 'warning-text' }, warning.message),
   );
+}
+
+/** What the three levels mean, once above the lists of warnings. */
+export function warningLevelsKey(): HTMLParagraphElement {
+  return h('p', { class: 'levels-key' },
+    h('span', { class: 'warning-level level-caution-text' }, 'Caution'), ' the result may be wrong in a way the data cannot show; ',
+    h('span', { class: 'warning-level level-warning-text' }, 'Warning'), ' a problem seen in the data; ',
+    h('span', { class: 'warning-level' }, 'Note'), ' for information.');
 }
 
 function warningList(warnings: readonly WarningResult[]): HTMLUListElement | null {
@@ -32,7 +34,7 @@ function warningList(warnings: readonly WarningResult[]): HTMLUListElement | nul
 /** Branch number chip in its plot colour and marker shape name. */
 export function branchChip(index: number): HTMLSpanElement {
   const style = branchStyle(index);
-  return h('span', { class: 'branch-chip', style: `--branch-color:${style.color}`, title: `branch ${index}: drawn as ${style.symbol}` }, String(index));
+  return h('span', { class: 'branch-chip', style: `--branch-color:${style.color};--branch-text:${style.text}`, title: `branch ${index} (${branchLabel(index)}): drawn as ${style.symbol}` }, String(index));
 }
 
 export function layerTable(result: Interpretation): HTMLTableElement {
@@ -41,7 +43,7 @@ export function layerTable(result: Interpretation): HTMLTableElement {
   const rows = result.layers.flatMap((layer) => {
     const warnings = layerWarnings(layer.index);
     const row = h('tr', { 'data-layer': layer.index },
-      h('th', { scope: 'row' }, branchChip(layer.index), ` ${layer.index}`),
+      h('th', { scope: 'row' }, branchChip(layer.index)),
       h('td', { class: 'number' }, withError(layer.velocity, layer.velocitySE)),
       h('td', { class: 'number' }, layer.thickness === null ? 'half-space' : withError(layer.thickness, layer.thicknessSE)),
       h('td', { class: 'number' }, layer.index === 1 ? '0 (surface)' : withError(layer.depthToTop, layer.depthToTopSE)),
@@ -70,7 +72,7 @@ function shotRows(result: Interpretation, shot: ShotResult): HTMLTableRowElement
   const warnings = result.warnings.filter((warning) => warning.shot === shot.id);
   const sides = shot.sides.map((side) => h('tr', { 'data-shot': shot.id, 'data-side': side.side },
     h('th', { scope: 'row' }, `${shot.id}`, h('span', { class: 'side-name' }, ` ${side.side}`)),
-    h('td', { class: 'number' }, String(shot.sourceX)),
+    h('td', { class: 'number' }, plain(shot.sourceX, 3)),
     h('td', {}, h('ul', { class: 'branch-list' }, ...side.branches.map((branch) => h('li', {},
       branchChip(branch.index),
       ` ${quantity(branch.apparentVelocity, branch.apparentVelocitySE, units.velocity)}`,
@@ -96,7 +98,7 @@ export function shotTable(result: Interpretation): HTMLTableElement {
     h('caption', {}, 'Shots, branches and crossovers'),
     h('thead', {}, h('tr', {},
       h('th', { scope: 'col' }, 'Shot, side'),
-      h('th', { scope: 'col' }, `Source at (${units.distance})`),
+      h('th', { scope: 'col' }, `Shot position (${units.distance})`),
       h('th', { scope: 'col' }, 'Branches: apparent velocity, intercept time'),
       h('th', { scope: 'col' }, 'Crossover distance'),
     )),
@@ -109,8 +111,9 @@ export function surveyWarnings(result: Interpretation): HTMLElement {
   const layerWide = result.warnings.filter((warning) => warning.shot === undefined && warning.layer !== undefined);
   const all = [...general, ...layerWide.filter((warning) => !result.layers.some((layer) => layer.index === warning.layer))];
   return h('section', { class: 'survey-warnings', 'aria-label': 'Survey warnings' },
-    h('h3', {}, 'Whole survey'),
-    all.length > 0 ? warningList(all) : h('p', { class: 'quiet' }, 'No survey-wide warnings. Warnings about single shots and layers are listed beside them.'),
+    h('h3', {}, 'Warnings about the whole survey'),
+    warningLevelsKey(),
+    all.length > 0 ? warningList(all) : h('p', { class: 'quiet' }, 'None. Warnings about a layer are listed under it in the layer table, those about a shot beside it in the shot table.'),
   );
 }
 

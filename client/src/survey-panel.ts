@@ -8,6 +8,7 @@
 import { api, ServiceError, uploadPicks } from './api.js';
 import type { Survey, TableProblem } from './api-types.js';
 import { h, replaceChildren } from './dom.js';
+import { shortDateTime } from './format.js';
 
 export interface SurveyPanelHooks {
   /** Open a survey (its latest revision). */
@@ -57,7 +58,9 @@ export class SurveyPanel {
         this.fileInput.value = '';
       },
     });
-    const dropZone = h('label', { class: 'drop-zone', for: 'pick-file', id: 'drop-zone' },
+    // The file input sits inside its label, so the label shows the keyboard focus (:focus-within).
+    const dropZone = h('label', { class: 'drop-zone', id: 'drop-zone' },
+      this.fileInput,
       h('span', { class: 'drop-title' }, 'New survey from a pick table'),
       h('span', { class: 'drop-hint' }, 'Drop a CSV here, or press to choose one'),
     );
@@ -77,7 +80,6 @@ export class SurveyPanel {
       h('h2', {}, 'Surveys'),
       this.search,
       this.list,
-      this.fileInput,
       dropZone,
       this.uploadState,
     );
@@ -110,10 +112,11 @@ export class SurveyPanel {
     const current = survey.id === this.currentId;
     const open = h('button', { class: 'survey-open', type: 'button', 'aria-current': current ? 'true' : false, onclick: () => {
       this.clearProblems();
+      replaceChildren(this.uploadState);
       this.hooks.open(survey.id);
     } },
       h('span', { class: 'survey-name' }, survey.name),
-      h('span', { class: 'survey-meta' }, `${survey.scale === 'crustal' ? 'crustal' : 'engineering'} · ${new Date(survey.updatedAt).toLocaleDateString()}`),
+      h('span', { class: 'survey-meta' }, `${survey.scale === 'crustal' ? 'crustal' : 'engineering'} · ${shortDateTime(survey.updatedAt)}`),
     );
     const rename = h('button', { class: 'icon-button', type: 'button', title: `Rename ${survey.name}`, 'aria-label': `Rename ${survey.name}`, onclick: () => this.startRename(item, survey) }, 'Rename');
     const remove = h('button', { class: 'icon-button danger', type: 'button', title: `Delete ${survey.name}`, 'aria-label': `Delete ${survey.name}`, onclick: () => void this.remove(survey) }, 'Delete');
@@ -131,13 +134,19 @@ export class SurveyPanel {
       event.preventDefault();
       void (async () => {
         try {
-          const renamed = await api.renameSurvey(survey.id, input.value, survey.version);
+          // The list may be older than the survey (an edit since): rename the survey as it is now.
+          const fresh = await api.getSurvey(survey.id);
+          const renamed = await api.updateSurvey(survey.id, { name: input.value }, fresh.version);
           await this.refresh();
           if (renamed.id === this.currentId) this.hooks.changed(renamed);
         } catch (error) {
           this.hooks.failed(error, `renaming ${survey.name}`);
+          await this.refresh();
         }
       })();
+    });
+    input.addEventListener('keydown', (event) => {
+      if (event.key === 'Escape') this.render();
     });
     replaceChildren(item, form);
     input.focus();
@@ -147,7 +156,8 @@ export class SurveyPanel {
   private async remove(survey: Survey): Promise<void> {
     if (!window.confirm(`Delete the survey “${survey.name}” with its picks, edits and every revision? This cannot be undone.`)) return;
     try {
-      await api.deleteSurvey(survey.id, survey.version);
+      const fresh = await api.getSurvey(survey.id);
+      await api.deleteSurvey(survey.id, fresh.version);
       await this.refresh();
       if (survey.id === this.currentId) this.hooks.changed(null, survey.id);
     } catch (error) {
@@ -181,7 +191,9 @@ export class SurveyPanel {
         progress.value = fraction;
       });
       replaceChildren(this.uploadState, h('p', {}, `Read ${reply.pickCount} picks of ${reply.shotIds.length} shots; interpreting…`));
-      const revision = await api.interpret(survey.id, reply.version, reply.suggestedScale);
+      // A crustal table (km, s) gets a crustal survey, so that every later revision keeps its units.
+      const version = reply.suggestedScale === survey.scale ? reply.version : (await api.updateSurvey(survey.id, { scale: reply.suggestedScale }, reply.version)).version;
+      const revision = await api.interpret(survey.id, version, { scale: reply.suggestedScale });
       replaceChildren(this.uploadState,
         h('p', { class: 'upload-done' }, `${file.name}: ${reply.pickCount} picks, ${reply.shotIds.length} shots, interpreted as revision ${revision.number}.`),
       );

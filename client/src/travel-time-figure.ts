@@ -11,7 +11,7 @@
 import type { Interpretation, StoredPick } from './api-types.js';
 import { placesByLine, sideOfStoredPick } from './branch-editing.js';
 import { branchStyle, EXCLUDED_STYLE, SELECTED_STYLE, UNASSIGNED_STYLE } from './branch-style.js';
-import { displayFactors, plain, reductionFactor } from './format.js';
+import { displayFactors, plain, plotlyText, reductionFactor } from './format.js';
 import { PLOT_THEME } from './plot-theme.js';
 
 /** Points past which the pick traces are drawn with WebGL (SVG slows down beyond a few thousand). */
@@ -30,6 +30,8 @@ export interface TravelTimeOptions {
   readonly uiRevision: string;
   /** WebGL may be used (the browser has it; a report image is always SVG). */
   readonly allowWebgl: boolean;
+  /** Changes whenever a dragged shape must go back to its place (a draw counter). */
+  readonly editRevision?: number;
   /** A breakpoint drawn as a vertical line the user can drag (position along the line), or none. */
   readonly breakpointMarker?: { readonly x: number; readonly label: string } | null;
 }
@@ -43,6 +45,12 @@ export interface Figure {
   readonly webgl: boolean;
   readonly pointCount: number;
 }
+
+/**
+ * Plotly dims unselected points after a box or lasso selection and keeps them dimmed; the
+ * client draws its own selection rings instead, so points keep full strength.
+ */
+const NO_DIMMING = { selected: { marker: { opacity: 1 } }, unselected: { marker: { opacity: 1 } } } as const;
 
 interface PointSet {
   x: number[];
@@ -75,7 +83,7 @@ export function travelTimeFigure(result: Interpretation, picks: readonly StoredP
           points.residual.push(pick.fitResidual);
           points.line.push(pick.line);
           points.text.push(
-            `shot ${shot.id}, ${side.side} · branch ${branch.index}<br>receiver at ${plain(pick.receiverX)} ${units.distance}, offset ${plain(pick.offset)} ${units.distance}` +
+            `shot ${plotlyText(shot.id)}, ${side.side} · branch ${branch.index}<br>receiver at ${plain(pick.receiverX)} ${units.distance}, offset ${plain(pick.offset)} ${units.distance}` +
               `<br>t = ${plain(pick.time, 3)} ${units.time} · residual ${plain(pick.fitResidual, 3)} ${units.time}<br>table line ${pick.line}`,
           );
           where.set(pick.line, { x: pick.receiverX, y });
@@ -100,7 +108,7 @@ export function travelTimeFigure(result: Interpretation, picks: readonly StoredP
       target.x.push(x);
       target.y.push(y);
       target.line.push(pick.line);
-      target.text.push(`shot ${pick.shot}, ${sideOfStoredPick(pick) ?? 'at the source'} · ${pick.excluded ? 'excluded from the fits' : 'on no branch'}<br>offset ${plain(offset)} ${units.distance}, t = ${plain(time, 3)} ${units.time}<br>table line ${pick.line}`);
+      target.text.push(`shot ${plotlyText(pick.shot)}, ${sideOfStoredPick(pick) ?? 'at the source'} · ${pick.excluded ? 'excluded from the fits' : 'on no branch'}<br>offset ${plain(offset)} ${units.distance}, t = ${plain(time, 3)} ${units.time}<br>table line ${pick.line}`);
       where.set(pick.line, { x, y });
     }
   }
@@ -119,12 +127,14 @@ export function travelTimeFigure(result: Interpretation, picks: readonly StoredP
       type: pointType, mode: 'markers', name, legendgroup: `b${index}`,
       x: points.x, y: points.y, customdata: points.line, text: points.text, hovertemplate: '%{text}<extra></extra>',
       marker: { color: style.color, symbol: style.symbol, size: 7, line: { width: 0.5, color: '#ffffff' } },
+      ...NO_DIMMING,
       meta: { role: 'picks', branch: index },
     });
     data.push({
       type: pointType, mode: 'markers', name: `${name} residuals`, legendgroup: `b${index}`, showlegend: false,
       x: points.x, y: points.residual, customdata: points.line, text: points.text, hovertemplate: '%{text}<extra></extra>',
       xaxis: 'x', yaxis: 'y2', marker: { color: style.color, symbol: style.symbol, size: 5 },
+      ...NO_DIMMING,
       meta: { role: 'residuals', branch: index },
     });
   }
@@ -133,6 +143,7 @@ export function travelTimeFigure(result: Interpretation, picks: readonly StoredP
       type: pointType, mode: 'markers', name: 'excluded from the fits', x: excluded.x, y: excluded.y, customdata: excluded.line,
       text: excluded.text, hovertemplate: '%{text}<extra></extra>',
       marker: { color: EXCLUDED_STYLE.color, symbol: EXCLUDED_STYLE.symbol, size: 8, line: { width: 1.5, color: EXCLUDED_STYLE.color } },
+      ...NO_DIMMING,
       meta: { role: 'excluded' },
     });
   }
@@ -141,6 +152,7 @@ export function travelTimeFigure(result: Interpretation, picks: readonly StoredP
       type: pointType, mode: 'markers', name: 'on no branch', x: unassigned.x, y: unassigned.y, customdata: unassigned.line,
       text: unassigned.text, hovertemplate: '%{text}<extra></extra>',
       marker: { color: UNASSIGNED_STYLE.color, symbol: UNASSIGNED_STYLE.symbol, size: 7 },
+      ...NO_DIMMING,
       meta: { role: 'unassigned' },
     });
   }
@@ -189,7 +201,7 @@ export function travelTimeFigure(result: Interpretation, picks: readonly StoredP
         crossovers.x.push(position(crossover.fitted));
         crossovers.y.push(lineTime(lower, crossover.fitted) - reduce(crossover.fitted));
         crossovers.text.push(
-          `shot ${shot.id}, ${side.side}: crossover of branches ${crossover.lowerBranch} and ${crossover.upperBranch}<br>` +
+          `shot ${plotlyText(shot.id)}, ${side.side}: crossover of branches ${crossover.lowerBranch} and ${crossover.upperBranch}<br>` +
             `at offset ${plain(crossover.fitted)}${crossover.fittedSE !== null ? ` ± ${plain(crossover.fittedSE)}` : ''} ${units.distance}` +
             `<br>picks change branch between offsets ${plain(crossover.observedBracket[0])} and ${plain(crossover.observedBracket[1])} ${units.distance}`,
         );
@@ -222,16 +234,21 @@ export function travelTimeFigure(result: Interpretation, picks: readonly StoredP
     data.push({
       type: pointType, mode: 'markers', name: `selected (${selected.length})`, x: selected.map((point) => point.x), y: selected.map((point) => point.y),
       customdata: selected.map((point) => point.line), hoverinfo: 'skip',
-      marker: { symbol: SELECTED_STYLE.symbol, size: 15, color: SELECTED_STYLE.color, line: { width: 2.5, color: SELECTED_STYLE.color } },
+      marker: { symbol: SELECTED_STYLE.symbol, size: 16, color: SELECTED_STYLE.color, line: { width: 3, color: SELECTED_STYLE.color } },
       meta: { role: 'selection' },
     });
   }
 
   const reducedTitle = options.reductionVelocity
-    ? `Reduced time t − |x − x<sub>s</sub>| / ${plain(options.reductionVelocity, 2)} ${units.velocity} (${units.time})`
+    ? `Reduced time (${units.time}), V<sub>red</sub> ${plain(options.reductionVelocity, 2)} ${units.velocity}`
     : `Travel time (${units.time})`;
   const layout: Record<string, unknown> = {
     uirevision: options.uiRevision,
+    // A new value on every draw: a dragged breakpoint line goes back to where the data put it.
+    editrevision: options.editRevision ?? 0,
+    // Likewise plotly's own selection box: the client's selection is drawn as rings.
+    selectionrevision: options.editRevision ?? 0,
+    selections: [],
     dragmode: options.dragMode,
     hovermode: 'closest',
     paper_bgcolor: PLOT_THEME.paper,
@@ -250,7 +267,7 @@ export function travelTimeFigure(result: Interpretation, picks: readonly StoredP
       ? [{
           type: 'line', xref: 'x', yref: 'paper', x0: options.breakpointMarker.x, x1: options.breakpointMarker.x, y0: 0.3, y1: 1,
           line: { color: PLOT_THEME.ink, width: 2, dash: 'dot' }, editable: true,
-          label: { text: options.breakpointMarker.label, textposition: 'end', font: { size: 11, color: PLOT_THEME.ink } },
+          label: { text: plotlyText(options.breakpointMarker.label), textposition: 'end', font: { size: 11, color: PLOT_THEME.ink } },
         }]
       : [],
   };

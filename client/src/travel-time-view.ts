@@ -11,8 +11,8 @@
  */
 import type { BranchEdit, Interpretation, StoredPick } from './api-types.js';
 import { assignmentEdits, breakpointEdits, breakpointsOf, placesByLine, type Assignment, type Breakpoint } from './branch-editing.js';
-import { h, replaceChildren } from './dom.js';
-import { plain } from './format.js';
+import { h, keepingFocus, replaceChildren } from './dom.js';
+import { branchLabel, plain, withError } from './format.js';
 import { loadPlotly, webglAvailable } from './plotly-loader.js';
 import { branchChip } from './results-view.js';
 import { travelTimeFigure, type TravelTimeOptions } from './travel-time-figure.js';
@@ -23,10 +23,12 @@ export interface EditState {
   /** Why not, when not, with a link to where they can. */
   readonly reason?: string;
   readonly latestPath?: string;
+  /** Interpret the current picks again (offered when the latest revision is older than the picks). */
+  readonly reinterpret?: () => Promise<void>;
 }
 
 export interface TravelTimeHooks {
-  readonly applyEdits: (edits: BranchEdit[], description: string) => Promise<void>;
+  readonly applyEdits: (edits: BranchEdit[], description: string) => Promise<unknown>;
   readonly undo: () => Promise<void>;
   /** What undo would take back, or null when there is nothing to undo. */
   readonly undoLabel: () => string | null;
@@ -39,7 +41,7 @@ type DragMode = TravelTimeOptions['dragMode'];
 const AUTO_LABEL_SHOTS = 5;
 
 const DRAG_MODES: readonly { mode: DragMode; label: string; hint: string }[] = [
-  { mode: 'zoom', label: 'Zoom', hint: 'drag a rectangle to zoom; double-click to see everything' },
+  { mode: 'zoom', label: 'Zoom', hint: 'drag a rectangle to zoom; double-click to see every pick' },
   { mode: 'pan', label: 'Pan', hint: 'drag to move along the line' },
   { mode: 'select', label: 'Box select', hint: 'drag a rectangle around picks to select them (Shift adds)' },
   { mode: 'lasso', label: 'Lasso select', hint: 'draw around picks to select them (Shift adds)' },
@@ -65,6 +67,9 @@ export class TravelTimeView {
   private listening = false;
   private drawing: Promise<void> = Promise.resolve();
   private readonly webgl = webglAvailable();
+  private shiftHeld = false;
+  /** Draws so far: each draw puts a dragged breakpoint line back where the data place it. */
+  private drawCount = 0;
   /** The breakpoint chosen in the panel (index into breakpointsOf), drawn on the plot to drag. */
   private chosenBreakpoint = 0;
 
@@ -78,6 +83,13 @@ export class TravelTimeView {
       h('div', { class: 'view-body' }, h('div', { class: 'plot-frame' }, this.plot), h('div', { class: 'side-column' }, this.editPanel, this.shotsPanel)),
     );
     document.addEventListener('keydown', (event) => this.onKey(event));
+    // Shift held while a box or lasso selection ends adds to the selection instead of replacing it.
+    const trackShift = (event: KeyboardEvent | PointerEvent) => {
+      this.shiftHeld = event.shiftKey;
+    };
+    document.addEventListener('keydown', trackShift);
+    document.addEventListener('keyup', trackShift);
+    document.addEventListener('pointerdown', trackShift, true);
   }
 
   /** Show an interpretation; `picks` are the stored picks (for excluded picks and editing). */
@@ -91,8 +103,11 @@ export class TravelTimeView {
       this.hiddenShots.clear();
       this.reductionVelocity = null;
       this.labelChoice = null;
+      this.selection = new Set();
+      this.chosenBreakpoint = 0;
     }
-    this.selection = new Set([...this.selection].filter((line) => picks?.some((pick) => pick.line === line)));
+    const lines = new Set(picks?.map((pick) => pick.line) ?? []);
+    this.selection = new Set([...this.selection].filter((line) => lines.has(line)));
     this.renderToolbar();
     this.renderShots();
     this.renderEditPanel();
@@ -104,6 +119,10 @@ export class TravelTimeView {
   }
 
   private renderToolbar(): void {
+    keepingFocus(this.element, () => this.renderToolbarNow());
+  }
+
+  private renderToolbarNow(): void {
     if (!this.result) return;
     const { units } = this.result;
     const modes = h('div', { class: 'segmented', role: 'group', 'aria-label': 'Dragging on the plot' },
@@ -133,7 +152,8 @@ export class TravelTimeView {
         type: 'checkbox', id: 'reduced-time', checked: this.reductionVelocity !== null,
         onchange: (event: Event) => {
           const on = (event.target as HTMLInputElement).checked;
-          this.reductionVelocity = on ? Number(velocityInput.value) || typical : null;
+          const typed = Number(velocityInput.value);
+          this.reductionVelocity = on ? (Number.isFinite(typed) && typed > 0 ? typed : typical) : null;
           velocityInput.disabled = !on;
           void this.draw();
         },
@@ -145,14 +165,18 @@ export class TravelTimeView {
         this.labelChoice = (event.target as HTMLInputElement).checked;
         void this.draw();
       } }),
-      ' Velocity labels',
+      ' Velocity and intercept labels',
     );
     const png = h('button', { type: 'button', id: 'travel-time-png', onclick: () => void this.savePng() }, 'Save PNG');
-    const reset = h('button', { type: 'button', onclick: () => void this.resetZoom(), title: 'Show every pick' }, 'Whole line');
+    const reset = h('button', { type: 'button', onclick: () => void this.resetZoom(), title: 'Zoom out to every pick' }, 'Show all picks');
     replaceChildren(this.toolbar, modes, reduced, labels, h('span', { class: 'toolbar-spacer' }), reset, png);
   }
 
   private renderShots(): void {
+    keepingFocus(this.element, () => this.renderShotsNow());
+  }
+
+  private renderShotsNow(): void {
     if (!this.result) return;
     const result = this.result;
     const rows = result.shots.map((shot) => {
@@ -162,6 +186,7 @@ export class TravelTimeView {
         onchange: (event: Event) => {
           if ((event.target as HTMLInputElement).checked) this.hiddenShots.delete(shot.id);
           else this.hiddenShots.add(shot.id);
+          this.dropHiddenFromSelection();
           this.renderToolbar();
           void this.draw();
         },
@@ -174,6 +199,7 @@ export class TravelTimeView {
     const all = (show: boolean) => () => {
       this.hiddenShots.clear();
       if (!show) for (const shot of result.shots) this.hiddenShots.add(shot.id);
+      this.dropHiddenFromSelection();
       this.renderShots();
       this.renderToolbar();
       void this.draw();
@@ -191,24 +217,31 @@ export class TravelTimeView {
   }
 
   private renderEditPanel(): void {
+    keepingFocus(this.element, () => this.renderEditPanelNow());
+  }
+
+  private renderEditPanelNow(): void {
     const result = this.result;
     if (!result) return;
     if (!this.editState.editable) {
-      replaceChildren(this.editPanel, h('h3', {}, 'Branch editing'),
+      const reinterpret = this.editState.reinterpret;
+      replaceChildren(this.editPanel, this.layerSummary(result), h('h3', {}, 'Branch editing'),
         h('p', { class: 'quiet' }, this.editState.reason ?? 'Editing is not available.'),
-        this.editState.latestPath ? h('a', { href: this.editState.latestPath, 'data-nav': 'true' }, 'Open the latest revision') : null);
+        this.editState.latestPath ? h('a', { href: this.editState.latestPath, 'data-nav': 'true' }, 'Open the latest revision') : null,
+        reinterpret ? h('button', { type: 'button', id: 'reinterpret', onclick: () => void reinterpret() }, 'Interpret the current picks') : null);
       return;
     }
     const count = this.selection.size;
     const disabled = count === 0 || this.busy;
     const assignButton = (assign: Assignment, label: Node | string, title: string) =>
       h('button', { type: 'button', disabled, title, 'data-assign': String(assign), onclick: () => void this.assignSelection(assign) }, label);
-    const branchButtons = this.branchNumbers().map((index) => assignButton(index, h('span', {}, branchChip(index), index === 1 ? ' direct' : ` head wave`), `Put the selected picks on branch ${index} (key ${index})`));
+    const branchButtons = this.branchNumbers().map((index) => assignButton(index, h('span', {}, branchChip(index), ` ${branchLabel(index)}`), `Put the selected picks on branch ${index}, the ${branchLabel(index)} (key ${index})`));
     const undoLabel = this.hooks.undoLabel();
     const undo = h('button', { type: 'button', id: 'undo-edit', disabled: undoLabel === null || this.busy, title: undoLabel ? `Undo: ${undoLabel} (Ctrl+Z)` : 'Nothing to undo', onclick: () => void this.runUndo() },
       undoLabel ? `Undo ${undoLabel}` : 'Undo');
 
     replaceChildren(this.editPanel,
+      this.layerSummary(result),
       h('h3', {}, 'Branch editing'),
       h('p', { class: 'selection-count', id: 'selection-count', 'aria-live': 'polite' },
         count === 0 ? 'No picks selected. Click picks, or use Box or Lasso select.' : `${count} pick${count === 1 ? '' : 's'} selected`,
@@ -216,11 +249,25 @@ export class TravelTimeView {
       h('div', { class: 'assign-grid', role: 'group', 'aria-label': 'Put the selected picks on branch' }, ...branchButtons),
       h('div', { class: 'button-row' },
         assignButton('exclude', 'Exclude', 'Leave the selected picks out of every fit (key X)'),
-        assignButton('automatic', 'Back to automatic', 'Let the automatic split place the selected picks again (key A)'),
+        assignButton('automatic', 'Unassign', 'Remove your branch from the selected picks: each joins the branch whose line fits it best (the automatic split, if no pick of its side keeps a branch of yours) (key A)'),
       ),
       h('div', { class: 'button-row' }, undo),
       this.rangeForm(result),
       this.breakpointForm(result),
+    );
+  }
+
+  /** The layers in brief, beside the plot, so that the result is on screen with it (the full table is below). */
+  private layerSummary(result: Interpretation): HTMLElement {
+    const { units } = result;
+    return h('table', { class: 'layer-summary', id: 'layer-summary', 'aria-label': 'Layers in brief' },
+      h('caption', {}, 'Layers'),
+      h('thead', {}, h('tr', {}, h('th', { scope: 'col' }, 'Layer'), h('th', { scope: 'col' }, units.velocity), h('th', { scope: 'col' }, `top (${units.distance})`))),
+      h('tbody', {}, ...result.layers.map((layer) => h('tr', {},
+        h('th', { scope: 'row' }, branchChip(layer.index)),
+        h('td', { class: 'number' }, withError(layer.velocity, layer.velocitySE)),
+        h('td', { class: 'number' }, layer.index === 1 ? '0' : withError(layer.depthToTop, layer.depthToTopSE)),
+      ))),
     );
   }
 
@@ -231,9 +278,9 @@ export class TravelTimeView {
     const from = h('input', { type: 'number', step: 'any', class: 'narrow', 'aria-label': `From offset (${result.units.distance})`, id: 'range-from', value: '0' });
     const to = h('input', { type: 'number', step: 'any', class: 'narrow', 'aria-label': `To offset (${result.units.distance})`, id: 'range-to', value: '' });
     const form = h('form', { class: 'range-form' },
-      h('h4', {}, 'Select by offset'),
+      h('h4', {}, 'Select by offset from the shot'),
       h('div', { class: 'form-row' }, shot, side),
-      h('div', { class: 'form-row' }, 'from ', from, ' to ', to, ` ${result.units.distance}`),
+      h('div', { class: 'form-row' }, 'from ', from, ' to ', h('span', { class: 'nowrap' }, to, ` ${result.units.distance}`)),
       h('button', { type: 'submit', disabled: this.busy }, 'Select'),
     );
     form.addEventListener('submit', (event) => {
@@ -245,6 +292,15 @@ export class TravelTimeView {
         if (place.shot === shot.value && place.side === side.value && place.offset >= low && place.offset <= high) lines.add(line);
       }
       this.setSelection(lines);
+      if (lines.size === 0) {
+        const offsets = [...placesByLine(result).values()].filter((place) => place.shot === shot.value && place.side === side.value).map((place) => place.offset);
+        const count = this.editPanel.querySelector('#selection-count');
+        if (count) {
+          count.textContent = offsets.length === 0
+            ? `Shot ${shot.value} has no ${side.value} side.`
+            : `No picks of shot ${shot.value}, ${side.value}, between those offsets: its offsets run from ${plain(Math.min(...offsets))} to ${plain(Math.max(...offsets))} ${result.units.distance} (distance from the shot, not position along the line).`;
+        }
+      }
     });
     return form;
   }
@@ -254,8 +310,9 @@ export class TravelTimeView {
     if (breakpoints.length === 0) return h('p', { class: 'quiet' }, 'No breakpoints: no side has two branches.');
     if (this.chosenBreakpoint >= breakpoints.length) this.chosenBreakpoint = 0;
     const unit = result.units.distance;
-    const label = (point: Breakpoint) => `${point.shot} ${point.side}: ${point.lowerBranch}|${point.upperBranch} between ${plain(point.lastLowerOffset)} and ${plain(point.firstUpperOffset)} ${unit}`;
-    const choice = h('select', { id: 'breakpoint-choice', 'aria-label': 'Breakpoint' },
+    const label = (point: Breakpoint) => `${point.shot} ${point.side}: branch ${point.lowerBranch} → ${point.upperBranch}, between offsets ${plain(point.lastLowerOffset)} and ${plain(point.firstUpperOffset)} ${unit}`;
+    // The picker shows the start; the whole text is in the list and in its tooltip.
+    const choice = h('select', { id: 'breakpoint-choice', 'aria-label': 'Breakpoint', title: breakpoints[this.chosenBreakpoint] ? label(breakpoints[this.chosenBreakpoint]!) : '' },
       ...breakpoints.map((point, k) => h('option', { value: String(k), selected: k === this.chosenBreakpoint }, label(point))));
     const offset = h('input', { type: 'number', step: 'any', class: 'narrow', id: 'breakpoint-offset', 'aria-label': `New breakpoint offset (${unit})` });
     const suggest = () => {
@@ -271,7 +328,7 @@ export class TravelTimeView {
     const form = h('form', { class: 'breakpoint-form' },
       h('h4', {}, 'Move a breakpoint'),
       choice,
-      h('div', { class: 'form-row' }, 'to offset ', offset, ` ${unit}`),
+      h('div', { class: 'form-row' }, 'to offset ', offset, ` ${unit} from the shot`),
       h('button', { type: 'submit', disabled: this.busy, id: 'breakpoint-move' }, 'Move'),
       h('p', { class: 'quiet small' }, 'Or drag the dotted line on the plot.'),
     );
@@ -289,7 +346,7 @@ export class TravelTimeView {
     const shot = this.result.shots.find((candidate) => candidate.id === point?.shot);
     if (!point || !shot || this.hiddenShots.has(shot.id)) return null;
     const direction = point.side === 'forward' ? 1 : -1;
-    return { x: shot.sourceX + direction * ((point.lastLowerOffset + point.firstUpperOffset) / 2), label: `${point.shot} ${point.lowerBranch}|${point.upperBranch}` };
+    return { x: shot.sourceX + direction * ((point.lastLowerOffset + point.firstUpperOffset) / 2), label: `${point.shot} ${point.lowerBranch}→${point.upperBranch}` };
   }
 
   private async moveBreakpoint(offset: number): Promise<void> {
@@ -297,7 +354,17 @@ export class TravelTimeView {
     const point = result ? breakpointsOf(result)[this.chosenBreakpoint] : undefined;
     if (!result || !point || !this.picks || !Number.isFinite(offset)) return;
     const edits = breakpointEdits(result, this.picks, point, offset);
-    await this.edit(edits, `breakpoint ${point.shot} ${point.side} ${point.lowerBranch}|${point.upperBranch} to ${plain(offset)} ${result.units.distance}`);
+    await this.edit(edits, `move of breakpoint ${point.lowerBranch}→${point.upperBranch} of ${point.shot} ${point.side} to ${plain(offset)} ${result.units.distance}`);
+  }
+
+  /** Picks of hidden shots leave the selection: an edit never touches what is not shown. */
+  private dropHiddenFromSelection(): void {
+    const shotOf = new Map(this.picks?.map((pick) => [pick.line, pick.shot]) ?? []);
+    const kept = new Set([...this.selection].filter((line) => !this.hiddenShots.has(shotOf.get(line) ?? '')));
+    if (kept.size !== this.selection.size) {
+      this.selection = kept;
+      this.renderEditPanel();
+    }
   }
 
   private setSelection(lines: Set<number>): void {
@@ -341,6 +408,8 @@ export class TravelTimeView {
 
   private onKey(event: KeyboardEvent): void {
     if (!this.visible || !this.editState.editable) return;
+    // Keys typed in a dialog (the token dialog) belong to it, not to the plot behind it.
+    if (document.querySelector('dialog[open]')) return;
     const target = event.target as HTMLElement | null;
     if (target && (target.tagName === 'INPUT' || target.tagName === 'SELECT' || target.tagName === 'TEXTAREA')) return;
     if ((event.ctrlKey || event.metaKey) && event.key.toLowerCase() === 'z') {
@@ -369,7 +438,7 @@ export class TravelTimeView {
   private options(): TravelTimeOptions {
     return {
       hiddenShots: this.hiddenShots, reductionVelocity: this.reductionVelocity, showLabels: this.showLabels(), dragMode: this.dragMode,
-      uiRevision: this.uiRevision, allowWebgl: this.webgl, breakpointMarker: this.breakpointMarker(),
+      uiRevision: this.uiRevision, allowWebgl: this.webgl, breakpointMarker: this.breakpointMarker(), editRevision: this.drawCount,
     };
   }
 
@@ -384,13 +453,16 @@ export class TravelTimeView {
   private async drawNow(): Promise<void> {
     if (!this.result) return;
     const Plotly = await loadPlotly();
+    this.drawCount += 1;
     const figure = travelTimeFigure(this.result, this.picks, this.selection, this.options());
     this.plot.dataset['pointCount'] = String(figure.pointCount);
     this.plot.dataset['webgl'] = String(figure.webgl);
     const first = !this.plot.classList.contains('js-plotly-plot');
     await Plotly.react(this.plot, figure.data, figure.layout, {
       responsive: true, displaylogo: false, scrollZoom: true,
-      modeBarButtonsToRemove: ['toImage', 'select2d', 'lasso2d', 'zoom2d', 'pan2d'],
+      modeBarButtonsToRemove: ['toImage', 'select2d', 'lasso2d', 'zoom2d', 'pan2d', 'sendDataToCloud'],
+      // Nothing leaves the office network: no button that offers to upload a chart.
+      showSendToCloud: false, showEditInChartStudio: false, showLink: false,
       edits: { shapePosition: true },
     });
     if (first) this.listen();
@@ -405,7 +477,7 @@ export class TravelTimeView {
       const points = (payload as { points?: { customdata?: unknown }[] } | undefined)?.points ?? [];
       const lines = new Set(points.map((point) => point.customdata).filter((line): line is number => typeof line === 'number'));
       if (lines.size === 0) return;
-      this.setSelection(lines);
+      this.setSelection(this.shiftHeld ? new Set([...this.selection, ...lines]) : lines);
     });
     plot.on('plotly_deselect', () => this.setSelection(new Set()));
     // The dotted breakpoint line dragged: its new position along the line is the new breakpoint.

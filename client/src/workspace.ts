@@ -11,7 +11,8 @@ import { api, ServiceError, storeToken, storedToken } from './api.js';
 import type { BranchEdit, CurrentPicks, Revision, RevisionSummary, Survey } from './api-types.js';
 import { effectiveEdits, inverseEdits } from './branch-editing.js';
 import { DepthView } from './depth-view.js';
-import { h, replaceChildren } from './dom.js';
+import { h, keepingFocus, replaceChildren } from './dom.js';
+import { shortDateTime } from './format.js';
 import { cautionList, layerTable, referenceList, shotTable, surveyWarnings } from './results-view.js';
 import { parseRoute, paths, type Route } from './routes.js';
 import { SurveyPanel } from './survey-panel.js';
@@ -22,10 +23,15 @@ const REVISION_POLL_MS = 10_000;
 
 type ViewName = 'travel-times' | 'depth';
 
+const capitalised = (text: string) => text.charAt(0).toUpperCase() + text.slice(1);
+
 /** The survey changed last (ISO timestamps sort as text). */
 function mostRecentlyChanged(surveys: readonly Survey[]): Survey | undefined {
   return [...surveys].sort((left, right) => right.updatedAt.localeCompare(left.updatedAt))[0];
 }
+
+/** How an edit ended: stored, nothing to store, refused as stale (picks changed elsewhere), or not stored. */
+type EditOutcome = 'stored' | 'unchanged' | 'conflict' | 'failed';
 
 interface UndoStep {
   readonly description: string;
@@ -52,7 +58,8 @@ export class Workspace {
   private revision: Revision | null = null;
   private picks: CurrentPicks | null = null;
   private view: ViewName = 'travel-times';
-  private undoSteps: UndoStep[] = [];
+  private readonly undoSteps = new Map<string, UndoStep[]>();
+  private openTicket = 0;
   private pollTimer: number | undefined;
 
   constructor(root: HTMLElement) {
@@ -67,7 +74,7 @@ export class Workspace {
     this.travelTimes = new TravelTimeView({
       applyEdits: (edits, description) => this.applyEdits(edits, description, true),
       undo: () => this.undo(),
-      undoLabel: () => this.undoSteps[this.undoSteps.length - 1]?.description ?? null,
+      undoLabel: () => this.undoStepsOf(this.survey?.id).at(-1)?.description ?? null,
       fileStem: () => this.fileStem(),
     });
     this.depth = new DepthView(() => this.fileStem());
@@ -149,16 +156,32 @@ export class Workspace {
     this.panel.setCurrent(null);
   }
 
-  /** Open a survey at `revisionNumber` (null: the latest). */
-  async openSurvey(id: string, revisionNumber: number | null, push: boolean): Promise<void> {
+  /**
+   * Open a survey at `revisionNumber` (null: the latest). `known`: that revision already in hand
+   * (just made by an edit), so it is not fetched again. When two opens overlap, the one asked for
+   * last wins: an earlier one that answers later is dropped.
+   */
+  async openSurvey(id: string, revisionNumber: number | null, push: boolean, known?: Revision): Promise<void> {
+    const ticket = ++this.openTicket;
+    const stale = () => ticket !== this.openTicket;
     this.say('Loading…');
     try {
-      const [survey, revisions, picks] = await Promise.all([api.getSurvey(id), api.listRevisions(id), api.currentPicks(id).catch(() => null)]);
+      const [survey, revisions, picks] = await Promise.all([
+        api.getSurvey(id),
+        api.listRevisions(id),
+        // A survey without picks answers 404 here: that is "no picks yet", anything else is an error.
+        api.currentPicks(id).catch((error: unknown) => {
+          if (error instanceof ServiceError && error.status === 404) return null;
+          throw error;
+        }),
+      ]);
+      if (stale()) return;
       let list = revisions;
       if (list.length === 0 && picks !== null) {
         // Picks without an interpretation yet (uploaded by a script): interpret them now.
-        await api.interpret(id, survey.version);
+        await api.interpret(id, survey.version, { scale: survey.scale });
         list = await api.listRevisions(id);
+        if (stale()) return;
       }
       const latest = list[list.length - 1];
       if (!latest) {
@@ -171,9 +194,8 @@ export class Workspace {
         return;
       }
       const number = revisionNumber !== null && list.some((entry) => entry.number === revisionNumber) ? revisionNumber : latest.number;
-      if (revisionNumber !== null && number !== revisionNumber) this.say(`Revision ${revisionNumber} does not exist; showing revision ${number}.`);
-      const revision = await api.getRevision(id, number);
-      if (this.survey?.id !== id) this.undoSteps = [];
+      const revision = known !== undefined && known.number === number ? known : await api.getRevision(id, number);
+      if (stale()) return;
       this.survey = survey;
       this.revisions = list;
       this.revision = revision;
@@ -184,11 +206,14 @@ export class Workspace {
         if (push) history.pushState(null, '', path);
         else history.replaceState(null, '', path);
       }
+      document.title = `${survey.name}, revision ${number} · slopebreak`;
       this.panel.setCurrent(id);
       this.render();
-      if (!(revisionNumber !== null && number !== revisionNumber)) this.say('');
+      if (revisionNumber !== null && number !== revisionNumber) this.say(`Revision ${revisionNumber} does not exist; showing revision ${number}.`);
+      else this.say('');
       this.schedulePoll();
     } catch (error) {
+      if (stale()) return;
       if (error instanceof ServiceError && error.status === 404) {
         this.say(`That survey is not on this server (it may have been deleted).`, true);
         this.renderEmpty();
@@ -198,11 +223,45 @@ export class Workspace {
     }
   }
 
+  /** The undo steps of a survey (each survey keeps its own while the page is open). */
+  private undoStepsOf(id: string | undefined): UndoStep[] {
+    if (id === undefined) return [];
+    let steps = this.undoSteps.get(id);
+    if (!steps) {
+      steps = [];
+      this.undoSteps.set(id, steps);
+    }
+    return steps;
+  }
+
+  /** True when the revision was computed from the picks stored now (a rename does not change them). */
+  private describesCurrentPicks(revision: Revision): boolean {
+    const picks = this.picks;
+    if (picks === null) return false;
+    if (revision.picksState !== null && picks.picksState !== null) return revision.picksState === picks.picksState;
+    return revision.surveyVersion === picks.version; // revisions stored before picks states were kept
+  }
+
   private render(): void {
     this.renderHeader();
     this.renderView();
     this.renderResults();
-    this.notice.hidden = true;
+    this.showNewerNotice(this.revisions[this.revisions.length - 1], false);
+  }
+
+  /** The notice that a newer revision than the one shown exists (hidden when the latest is shown). */
+  private showNewerNotice(latest: RevisionSummary | undefined, sinceOpened: boolean): void {
+    const survey = this.survey;
+    const shown = this.revision;
+    if (!survey || !shown || !latest || latest.number <= shown.number) {
+      this.notice.hidden = true;
+      return;
+    }
+    replaceChildren(this.notice,
+      `This is revision ${shown.number}. A newer revision of this survey exists: revision ${latest.number} (${shortDateTime(latest.createdAt)})${sinceOpened ? ', made since this page was opened' : ''}. `,
+      h('a', { href: paths.revision(survey.id, latest.number), 'data-nav': 'true', id: 'open-newer' }, `Open revision ${latest.number}`),
+    );
+    this.notice.hidden = false;
   }
 
   private isLatest(): boolean {
@@ -211,13 +270,17 @@ export class Workspace {
   }
 
   private renderHeader(): void {
+    keepingFocus(this.root, () => this.renderHeaderNow());
+  }
+
+  private renderHeaderNow(): void {
     const survey = this.survey;
     if (!survey) return;
     replaceChildren(this.title, h('h1', { title: survey.description || survey.name }, survey.name));
     if (this.revision) {
       const select = h('select', { id: 'revision-select', 'aria-label': 'Revision shown' },
         ...[...this.revisions].reverse().map((entry) => h('option', { value: String(entry.number), selected: entry.number === this.revision!.number },
-          `revision ${entry.number}${entry.number === this.revisions[this.revisions.length - 1]?.number ? ' (latest)' : ''} · ${new Date(entry.createdAt).toLocaleString(undefined, { dateStyle: 'short', timeStyle: 'short' })}`)),
+          `revision ${entry.number}${entry.number === this.revisions[this.revisions.length - 1]?.number ? ' (latest)' : ''} · ${shortDateTime(entry.createdAt)}`)),
       );
       select.addEventListener('change', () => void this.openSurvey(survey.id, Number(select.value), true));
       replaceChildren(this.revisionPicker, select);
@@ -253,17 +316,21 @@ export class Workspace {
     if (this.view === 'travel-times') {
       replaceChildren(this.viewHolder, this.travelTimes.element);
       const latest = this.isLatest();
-      const current = this.picks !== null && revision.surveyVersion === this.picks.version;
+      const current = this.describesCurrentPicks(revision);
       const latestNumber = this.revisions[this.revisions.length - 1]?.number;
       void this.travelTimes.show(revision.result, picks, latest && current
         ? { editable: true }
-        : {
-            editable: false,
-            reason: latest
-              ? 'The picks changed after this revision was made; interpret them again to edit.'
-              : `This is revision ${revision.number}; edits are made on the latest revision${latestNumber ? ` (${latestNumber})` : ''}.`,
-            ...(latestNumber ? { latestPath: paths.revision(this.survey.id, latestNumber) } : {}),
-          }, uiRevision);
+        : latest
+          ? {
+              editable: false,
+              reason: 'The picks were changed after this revision was made (a new upload or edits from elsewhere). Interpret them again to see and edit the result.',
+              reinterpret: () => this.reinterpret(),
+            }
+          : {
+              editable: false,
+              reason: `This is revision ${revision.number}; edits are made on the latest revision${latestNumber ? ` (${latestNumber})` : ''}.`,
+              ...(latestNumber ? { latestPath: paths.revision(this.survey.id, latestNumber) } : {}),
+            }, uiRevision);
     } else {
       replaceChildren(this.viewHolder, this.depth.element);
       void this.depth.show(revision.result, picks, uiRevision);
@@ -277,7 +344,7 @@ export class Workspace {
     const result = revision.result;
     const exports = h('div', { class: 'button-row exports' },
       h('a', { class: 'button-link', href: api.layersCsvUrl(survey.id, revision.number), download: '' }, 'Layers CSV'),
-      h('a', { class: 'button-link', href: api.picksCsvUrl(survey.id), download: '' }, 'Picks CSV (with branches)'),
+      h('a', { class: 'button-link', href: api.picksCsvUrl(survey.id), download: '', title: 'The current pick table with your branch assignments and exclusions (picks placed by the automatic split have an empty branch)' }, 'Picks CSV (with your edits)'),
       h('a', { class: 'button-link', href: paths.report(survey.id, revision.number) }, 'Printable report'),
     );
     const summary = h('p', { class: 'result-summary', id: 'result-summary' },
@@ -290,54 +357,78 @@ export class Workspace {
       h('div', { class: 'results-head' }, h('h2', {}, 'Results'), exports),
       summary,
       h('div', { class: 'results-grid' },
-        h('div', { class: 'results-main' }, layerTable(result), shotTable(result)),
+        h('div', { class: 'results-main' }, layerTable(result)),
         h('div', { class: 'results-side' }, surveyWarnings(result), cautionList(result.cautions)),
       ),
+      shotTable(result),
       referenceList(result),
     );
   }
 
   /**
-   * Store `edits`, re-interpret, and show the new revision; when `undoable`, remember the edits
-   * that take them back. A stale version (someone else changed the survey) reloads and says so.
+   * Store `edits`, re-interpret with the shown revision's options, and show the new revision; when
+   * `undoable`, remember the edits that take them back. Says how it ended. A stale
+   * version (someone else changed the picks) reloads, says so, and forgets this survey's undo steps:
+   * they were computed on picks that are no longer there.
    */
-  private async applyEdits(edits: BranchEdit[], description: string, undoable: boolean): Promise<void> {
+  private async applyEdits(edits: BranchEdit[], description: string, undoable: boolean): Promise<EditOutcome> {
     const survey = this.survey;
     const picks = this.picks;
-    if (!survey || !picks) return;
+    const shown = this.revision;
+    if (!survey || !picks || !shown) return 'failed';
     const effective = effectiveEdits(picks.pickSet.picks, edits);
     if (effective.length === 0) {
       this.say('Nothing to change: the picks are already where you put them.');
-      return;
+      return 'unchanged';
     }
     const inverse = inverseEdits(picks.pickSet.picks, effective);
     this.say(`Saving the ${description} and interpreting again…`);
     const started = performance.now();
+    let stored: { version: number } | null = null;
     try {
-      const stored = await api.addBranchEdits(survey.id, effective, picks.version);
-      const revision = await api.interpret(survey.id, stored.version);
-      if (undoable) this.undoSteps.push({ description, edits: inverse });
-      await this.openSurvey(survey.id, revision.number, true);
+      stored = await api.addBranchEdits(survey.id, effective, picks.version);
+      if (undoable) this.undoStepsOf(survey.id).push({ description, edits: inverse });
+      const revision = await api.interpret(survey.id, stored.version, shown.options);
+      await this.openSurvey(survey.id, revision.number, true, revision);
       this.say(`Saved as revision ${revision.number} (${Math.round(performance.now() - started)} ms).`);
+      return 'stored';
     } catch (error) {
       if (error instanceof ServiceError && error.status === 409) {
+        this.undoStepsOf(survey.id).length = 0;
         await this.openSurvey(survey.id, null, true);
-        this.say('Someone else changed this survey meanwhile; their revision is shown now. Make the edit again if it is still needed.', true);
-        return;
+        this.say('Someone else changed the picks of this survey meanwhile; their latest revision is shown now. Make the edit again if it is still needed.', true);
+        return 'conflict';
       }
-      this.fail(error, `saving the ${description}`);
+      if (stored !== null) {
+        // The edits are stored but the interpretation failed: show what is there, with the way on.
+        await this.openSurvey(survey.id, null, true);
+      }
+      this.fail(error, stored !== null ? `interpreting after the ${description} (the edit itself is saved)` : `saving the ${description}`);
+      return stored !== null ? 'stored' : 'failed';
+    }
+  }
+
+  /** Interpret the current picks again with the latest revision's options (after changes made elsewhere). */
+  private async reinterpret(): Promise<void> {
+    const survey = this.survey;
+    const picks = this.picks;
+    const shown = this.revision;
+    if (!survey || !picks || !shown) return;
+    try {
+      const revision = await api.interpret(survey.id, picks.version, shown.options);
+      await this.openSurvey(survey.id, revision.number, true, revision);
+      this.say(`Interpreted the current picks as revision ${revision.number}.`);
+    } catch (error) {
+      this.fail(error, 'interpreting the current picks');
     }
   }
 
   private async undo(): Promise<void> {
-    const step = this.undoSteps.pop();
+    const steps = this.undoStepsOf(this.survey?.id);
+    const step = steps.pop();
     if (!step) return;
-    try {
-      await this.applyEdits(step.edits, `undo of the ${step.description}`, false);
-    } catch (error) {
-      this.undoSteps.push(step);
-      throw error;
-    }
+    // Not stored (the server refused or did not answer): the step stays, to be tried again.
+    if ((await this.applyEdits(step.edits, `undo of the ${step.description}`, false)) === 'failed') steps.push(step);
   }
 
   private async surveyChanged(survey: Survey | null, deletedId?: string): Promise<void> {
@@ -370,15 +461,11 @@ export class Workspace {
     try {
       const list = await api.listRevisions(survey.id);
       const latest = list[list.length - 1];
-      if (this.survey?.id !== survey.id) return;
-      if (latest && latest.number > revision.number) {
-        const madeHere = this.revisions.some((entry) => entry.number === latest.number);
-        replaceChildren(this.notice,
-          `A newer revision of this survey exists: revision ${latest.number} (${new Date(latest.createdAt).toLocaleString()})${madeHere ? '' : ', made since this page was opened'}. `,
-          h('a', { href: paths.revision(survey.id, latest.number), 'data-nav': 'true', id: 'open-newer' }, `Open revision ${latest.number}`),
-        );
-        this.notice.hidden = false;
-      } else this.notice.hidden = true;
+      // What is shown now, not when the poll started (an edit may have landed meanwhile).
+      const shown = this.revision;
+      if (this.survey?.id !== survey.id || !shown) return;
+      const madeHere = latest !== undefined && this.revisions.some((entry) => entry.number === latest.number);
+      this.showNewerNotice(latest, !madeHere);
     } catch {
       // A missed poll is not worth an error: the next one tries again.
     }
@@ -411,7 +498,11 @@ export class Workspace {
         this.tokenDialog.showModal();
         return;
       }
-      this.say(`${what} failed: ${error.message}. ${error.fix}.`, true);
+      if (error.status === 409) {
+        this.say(`${what} was not done: the survey was changed meanwhile (in another window or by a colleague). The list is up to date now; try again.`, true);
+        return;
+      }
+      this.say(`${what} failed: ${error.message}. ${capitalised(error.fix)}.`, true);
       return;
     }
     this.say(`${what} failed: ${error instanceof Error ? error.message : String(error)}`, true);
@@ -422,7 +513,7 @@ export class Workspace {
     const dialog = h('dialog', { class: 'token-dialog', 'aria-labelledby': 'token-title' });
     const form = h('form', { method: 'dialog' },
       h('h2', { id: 'token-title' }, 'Access token'),
-      h('p', {}, 'A server shared over the office network lets anyone read surveys, but changes from other machines need the access token its operator printed when it first started. It is kept in this browser only.'),
+      h('p', {}, 'On a server shared over the office network, anyone may read surveys, but changes made from other machines need the access token. The operator got it when the service was first started for the network (it is kept in the access-token file of its data folder). The token is kept in this browser only.'),
       input,
       h('div', { class: 'button-row' },
         h('button', { type: 'submit', value: 'save' }, 'Keep token'),

@@ -9,7 +9,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { DISPLAY_UNITS, distanceFromSI, timeFromSI, velocityFromSI } from '../../lib/units.js';
-import { branchLabel, decimalsFor, displayFactors, plain, quantity, reductionFactor, withError } from '../../client/src/format.js';
+import { branchLabel, decimalsFor, displayFactors, plain, plotlyText, quantity, reductionFactor, shortDateTime, withError } from '../../client/src/format.js';
 import { parseRoute, paths } from '../../client/src/routes.js';
 
 /** The client multiplies by 1e-3 where lib divides by 1000: the two differ by at most an ulp or so. */
@@ -97,9 +97,9 @@ describe('displayFactors, reductionFactor and labels', () => {
   });
 
   it('branchLabel names branch 1 the direct wave and branch n the head wave of refractor n − 1', () => {
-    expect(branchLabel(1)).toBe('direct wave (1)');
-    expect(branchLabel(2)).toBe('refractor 1 head wave (2)');
-    expect(branchLabel(3)).toBe('refractor 2 head wave (3)');
+    expect(branchLabel(1)).toBe('direct wave');
+    expect(branchLabel(2)).toBe('refractor 1');
+    expect(branchLabel(3)).toBe('refractor 2');
   });
 });
 
@@ -138,5 +138,18 @@ describe('parseRoute and paths', () => {
       }),
       { seed: 90_210, numRuns: 1000 },
     );
+  });
+});
+
+describe('plotlyText and shortDateTime', () => {
+  it('plotlyText escapes the characters plotly reads as markup, so user text is shown as written (common practice: HTML escaping)', () => {
+    expect(plotlyText("<a href='https://example.org'>F1</a> & co")).toBe("&lt;a href='https://example.org'&gt;F1&lt;/a&gt; &amp; co");
+    expect(plotlyText('A-W')).toBe('A-W');
+  });
+
+  it('shortDateTime writes local date and time as YYYY-MM-DD HH:MM (ISO 8601 order) and leaves unreadable text alone', () => {
+    const local = new Date(2026, 11, 2, 14, 5);
+    expect(shortDateTime(local.toISOString())).toBe('2026-12-02 14:05');
+    expect(shortDateTime('not a date')).toBe('not a date');
   });
 });
