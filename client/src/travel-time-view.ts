@@ -161,11 +161,11 @@ export class TravelTimeView {
       ' Reduced time at ', velocityInput, ` ${units.velocity}`,
     );
     const labels = h('label', { class: 'check' },
-      h('input', { type: 'checkbox', id: 'branch-labels', checked: this.showLabels(), onchange: (event: Event) => {
+      h('input', { type: 'checkbox', id: 'branch-labels', title: 'Write each branch\u2019s apparent velocity and intercept time beside it', checked: this.showLabels(), onchange: (event: Event) => {
         this.labelChoice = (event.target as HTMLInputElement).checked;
         void this.draw();
       } }),
-      ' Velocity and intercept labels',
+      ' Label v, tᵢ',
     );
     const png = h('button', { type: 'button', id: 'travel-time-png', onclick: () => void this.savePng() }, 'Save PNG');
     const reset = h('button', { type: 'button', onclick: () => void this.resetZoom(), title: 'Zoom out to every pick' }, 'Show all picks');
