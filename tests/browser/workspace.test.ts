@@ -387,7 +387,7 @@ describe('the browser client', () => {
     await waitForPlot(page, '#travel-time-plot');
   });
 
-  it(`re-interprets an edit of a 1,000-pick survey within ${EDIT_BUDGET_MS} ms from the click`, async () => {
+  it(`re-interprets an edit of a 1,000-pick survey and prints the time from click to new result (acceptance ${EDIT_BUDGET_MS} ms; fails past 3×)`, async () => {
     const survey = syntheticSurvey({
       velocities: [600, 2400], thicknesses: [6], receivers: range(200, 1, 1), shots: [0, 50.5, 100.5, 150.5, 201], noise: 0.0002, sigma: 0.0003, seed: 41,
     });
