@@ -139,3 +139,28 @@ export function uploadPicks(id: string, file: File, version: number, onProgress:
     xhr.send(form);
   });
 }
+
+/**
+ * Download a file the service makes (a CSV) under `fileName`. Fetched with the access token when
+ * one is kept, so the download works on a server whose reads are locked too.
+ */
+export async function downloadFromService(path: string, fileName: string): Promise<void> {
+  let response: Response;
+  try {
+    response = await fetch(path, { headers: headers({ Accept: 'text/csv, application/json' }) });
+  } catch {
+    throw new ServiceError(0, 'unreachable', 'the server did not answer', 'check that the slopebreak service is running and that this machine can reach it', {});
+  }
+  if (!response.ok) throw await errorFrom(response);
+  const url = URL.createObjectURL(await response.blob());
+  try {
+    const link = document.createElement('a');
+    link.href = url;
+    link.download = fileName;
+    document.body.append(link);
+    link.click();
+    link.remove();
+  } finally {
+    setTimeout(() => URL.revokeObjectURL(url), 10_000);
+  }
+}

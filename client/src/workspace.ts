@@ -7,7 +7,7 @@
  * history of this session's edits. Every change of revision updates the address bar, so the URL
  * in it is always one a colleague can open.
  */
-import { api, ServiceError, storeToken, storedToken } from './api.js';
+import { api, downloadFromService, ServiceError, storeToken, storedToken } from './api.js';
 import type { BranchEdit, CurrentPicks, Revision, RevisionSummary, Survey } from './api-types.js';
 import { effectiveEdits, inverseEdits } from './branch-editing.js';
 import { DepthView } from './depth-view.js';
@@ -343,8 +343,8 @@ export class Workspace {
     if (!revision || !survey) return;
     const result = revision.result;
     const exports = h('div', { class: 'button-row exports' },
-      h('a', { class: 'button-link', href: api.layersCsvUrl(survey.id, revision.number), download: '' }, 'Layers CSV'),
-      h('a', { class: 'button-link', href: api.picksCsvUrl(survey.id), download: '', title: 'The current pick table with your branch assignments and exclusions (picks placed by the automatic split have an empty branch)' }, 'Picks CSV (with your edits)'),
+      this.downloadLink(api.layersCsvUrl(survey.id, revision.number), `${this.fileStem()}-layers.csv`, 'Layers CSV', 'The layers of this revision, one row per layer, columns named with their units'),
+      this.downloadLink(api.picksCsvUrl(survey.id), `${this.fileStem()}-picks.csv`, 'Picks CSV (with your edits)', 'The current pick table with your branch assignments and exclusions (picks placed by the automatic split have an empty branch)'),
       h('a', { class: 'button-link', href: paths.report(survey.id, revision.number) }, 'Printable report'),
     );
     const summary = h('p', { class: 'result-summary', id: 'result-summary' },
@@ -479,6 +479,17 @@ export class Workspace {
     } catch {
       this.say(`Link to share: ${url}`);
     }
+  }
+
+  /** A download link that fetches through api.ts (with the token when one is kept). */
+  private downloadLink(path: string, fileName: string, label: string, title: string): HTMLAnchorElement {
+    return h('a', {
+      class: 'button-link', href: path, download: fileName, title,
+      onclick: (event: Event) => {
+        event.preventDefault();
+        void downloadFromService(path, fileName).catch((error: unknown) => this.fail(error, `downloading ${label}`));
+      },
+    }, label);
   }
 
   private fileStem(): string {

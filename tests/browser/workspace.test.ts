@@ -317,6 +317,7 @@ describe('the browser client', () => {
     const bytes = readFileSync((await png.path())!);
     expect(bytes.subarray(0, 8)).toEqual(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a])); // PNG signature (ISO/IEC 15948)
     const [csv] = await Promise.all([page.waitForEvent('download'), page.click('a:has-text("Layers CSV")')]);
+    expect(csv.suggestedFilename()).toMatch(/^millbrook-quarry-bedrock-rev\d+-layers\.csv$/);
     const text = readFileSync((await csv.path())!, 'utf8');
     expect(text.split('\n')[0]).toMatch(/^layer,velocity_m_per_s,velocity_se_m_per_s,thickness_m/);
   });
