@@ -68,6 +68,7 @@ export class TravelTimeView {
   private drawing: Promise<void> = Promise.resolve();
   private readonly webgl = webglAvailable();
   private shiftHeld = false;
+  private readonly selectionLive = h('p', { class: 'selection-count', id: 'selection-count', 'aria-live': 'polite' });
   /** Draws so far: each draw puts a dragged breakpoint line back where the data place it. */
   private drawCount = 0;
   /** The breakpoint chosen in the panel (index into breakpointsOf), drawn on the plot to drag. */
@@ -243,9 +244,7 @@ export class TravelTimeView {
     replaceChildren(this.editPanel,
       this.layerSummary(result),
       h('h3', {}, 'Branch editing'),
-      h('p', { class: 'selection-count', id: 'selection-count', 'aria-live': 'polite' },
-        count === 0 ? 'No picks selected. Click picks, or use Box or Lasso select.' : `${count} pick${count === 1 ? '' : 's'} selected`,
-        count > 0 ? h('button', { type: 'button', class: 'link-button', onclick: () => this.setSelection(new Set()) }, 'clear') : null),
+      this.selectionCount(count),
       h('div', { class: 'assign-grid', role: 'group', 'aria-label': 'Put the selected picks on branch' }, ...branchButtons),
       h('div', { class: 'button-row' },
         assignButton('exclude', 'Exclude', 'Leave the selected picks out of every fit (key X)'),
@@ -255,6 +254,17 @@ export class TravelTimeView {
       this.rangeForm(result),
       this.breakpointForm(result),
     );
+  }
+
+  /**
+   * The selection count, one element kept for the life of the view (its text changes): a screen
+   * reader announces a live region whose text changes, not one that is replaced.
+   */
+  private selectionCount(count: number): HTMLElement {
+    replaceChildren(this.selectionLive,
+      count === 0 ? 'No picks selected. Click picks, or use Box or Lasso select.' : `${count} pick${count === 1 ? '' : 's'} selected`,
+      count > 0 ? h('button', { type: 'button', class: 'link-button', onclick: () => this.setSelection(new Set()) }, 'clear') : null);
+    return this.selectionLive;
   }
 
   /** The layers in brief, beside the plot, so that the result is on screen with it (the full table is below). */
