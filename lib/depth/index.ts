@@ -18,3 +18,6 @@ export { branchParameterCovariance, chainJacobians, cumulativeRows, layerDepthsF
 
 // The contract types of the depth stage.
 export type { BranchParameters, DepthMethod, DepthNote, LayerDepths } from './types.js';
+
+// Near-surface corrections of head-wave times: datum (elevations) and uphole (buried shots).
+export { buriedShotDirectTime, datumTooLow, headWaveDatumCorrection, upholeCorrection, type NearSurfaceCorrection } from './near-surface-corrections.js';
