@@ -236,6 +236,44 @@ describe('the browser client', () => {
     expect(await page.textContent('#result-summary')).toContain(`${selected} picks excluded`);
   });
 
+  it('selects picks with Box select, adds to them with Shift, and Esc clears the selection', async () => {
+    await page.click('button[data-drag-mode="select"]');
+    await page.evaluate(() => (globalThis as unknown as { scrollTo(x: number, y: number): void }).scrollTo(0, 0));
+    /** Page pixels of a point given in the plot's data units (position m, time ms). */
+    const pixel = (x: number, y: number) => page.evaluate(({ x: px, y: py }) => {
+      const plot = (globalThis as unknown as PageGlobals).document.querySelector('#travel-time-plot');
+      const xaxis = plot!._fullLayout!['xaxis']!;
+      const yaxis = plot!._fullLayout!['yaxis']!;
+      const box = plot!.getBoundingClientRect();
+      return { x: box.left + xaxis._offset + xaxis.l2p(px), y: box.top + yaxis._offset + yaxis.l2p(py) };
+    }, { x, y });
+    const drag = async (from: { x: number; y: number }, to: { x: number; y: number }) => {
+      await page.mouse.move(from.x, from.y);
+      await page.mouse.down();
+      await page.mouse.move((from.x + to.x) / 2, (from.y + to.y) / 2, { steps: 4 });
+      await page.mouse.move(to.x, to.y, { steps: 4 });
+      await page.mouse.up();
+    };
+    const count = async () => Number(/^(\d+) picks? selected/.exec((await page.textContent('#selection-count')) ?? '')?.[1] ?? 0);
+    // Direct-wave picks of shot A-W: positions 1.5–6 m, times under 16 ms (the sample's first picks).
+    await drag(await pixel(0.5, 17), await pixel(6.5, -1));
+    await page.waitForFunction(() => /^\d+ picks? selected/.test((globalThis as unknown as PageGlobals).document.querySelector('#selection-count')?.textContent ?? ''));
+    const first = await count();
+    expect(first).toBeGreaterThanOrEqual(4);
+    // Shift+drag around the direct-wave picks of A-E (positions 67.5–72 m) adds them.
+    await page.keyboard.down('Shift');
+    await drag(await pixel(67, 17), await pixel(73, -1));
+    await page.keyboard.up('Shift');
+    await page.waitForFunction((before) => {
+      const text = (globalThis as unknown as PageGlobals).document.querySelector('#selection-count')?.textContent ?? '';
+      return Number(/^(\d+)/.exec(text)?.[1] ?? 0) > before;
+    }, first);
+    expect(await count()).toBeGreaterThanOrEqual(first + 4);
+    await page.click('button[data-drag-mode="zoom"]');
+    await page.keyboard.press('Escape');
+    await page.waitForFunction(() => ((globalThis as unknown as PageGlobals).document.querySelector('#selection-count')?.textContent ?? '').startsWith('No picks selected'));
+  });
+
   it('moves a breakpoint: the picks between the old and the new offset change branch', async () => {
     const revision = await revisionShown();
     const options = await page.$$eval('#breakpoint-choice option', (items) => items.map((item) => item.textContent ?? ''));
