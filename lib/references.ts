@@ -36,6 +36,10 @@ export const REFERENCES = {
   Yergeau2003: 'Yergeau F. 2003. UTF-8, a transformation format of ISO 10646. RFC 3629, IETF.',
   Friedman1991: 'Friedman J.H. 1991. Multivariate adaptive regression splines. Annals of Statistics 19.',
   KassRaftery1995: 'Kass R.E., Raftery A.E. 1995. Bayes factors. Journal of the American Statistical Association 90.',
+  Mota1954: 'Mota L. 1954. Determination of dips and depths of geological layers by the seismic refraction method. Geophysics 19.',
+  Johnson1976: 'Johnson S.H. 1976. Interpretation of split-spread refraction data in terms of plane dipping layers. Geophysics 41 (title as recalled; verify).',
+  Moser1991: 'Moser T.J. 1991. Shortest path calculation of seismic rays. Geophysics 56.',
+  Dijkstra1959: 'Dijkstra E.W. 1959. A note on two problems in connexion with graphs. Numerische Mathematik 1.',
 } as const;
 
 export type ReferenceKey = keyof typeof REFERENCES;
