@@ -7,7 +7,7 @@
 import type { Interpretation, RefractorResult, StoredPick } from './api-types.js';
 import { branchStyle } from './branch-style.js';
 import { displayFactors, plain, plotlyText, quantity } from './format.js';
-import { PLOT_THEME } from './plot-theme.js';
+import { BASE_LAYOUT, PLOT_THEME, positionAxis } from './plot-theme.js';
 import type { Figure, Trace } from './travel-time-figure.js';
 
 export type DepthMode = 'depth' | 'elevation';
@@ -164,13 +164,8 @@ export function depthFigure(result: Interpretation, picks: readonly StoredPick[]
 
   const layout: Record<string, unknown> = {
     uirevision: uiRevision,
-    hovermode: 'closest',
-    paper_bgcolor: PLOT_THEME.paper,
-    plot_bgcolor: PLOT_THEME.plot,
-    font: { family: PLOT_THEME.font, size: 13, color: PLOT_THEME.ink },
-    margin: { l: 70, r: 20, t: 16, b: 56 },
-    legend: { orientation: 'h', x: 0, y: 1.02, yanchor: 'bottom', font: { size: 12 } },
-    xaxis: { title: { text: `Position along the line (${units.distance})` }, gridcolor: PLOT_THEME.grid, zeroline: false },
+    ...BASE_LAYOUT,
+    xaxis: positionAxis(units.distance),
     yaxis: useElevation
       ? { title: { text: `Elevation (${units.distance})` }, gridcolor: PLOT_THEME.grid, zeroline: false }
       : { title: { text: `Depth below ground (${units.distance})` }, gridcolor: PLOT_THEME.grid, zeroline: false, autorange: 'reversed' },

@@ -12,7 +12,7 @@ import type { Interpretation, StoredPick } from './api-types.js';
 import { placesByLine, sideOfStoredPick } from './branch-editing.js';
 import { branchStyle, EXCLUDED_STYLE, SELECTED_STYLE, UNASSIGNED_STYLE } from './branch-style.js';
 import { displayFactors, plain, plotlyText, reductionFactor } from './format.js';
-import { PLOT_THEME } from './plot-theme.js';
+import { BASE_LAYOUT, PLOT_THEME, positionAxis } from './plot-theme.js';
 
 /** Points past which the pick traces are drawn with WebGL (SVG slows down beyond a few thousand). */
 export const WEBGL_POINT_COUNT = 3000;
@@ -250,13 +250,8 @@ export function travelTimeFigure(result: Interpretation, picks: readonly StoredP
     selectionrevision: options.editRevision ?? 0,
     selections: [],
     dragmode: options.dragMode,
-    hovermode: 'closest',
-    paper_bgcolor: PLOT_THEME.paper,
-    plot_bgcolor: PLOT_THEME.plot,
-    font: { family: PLOT_THEME.font, size: 13, color: PLOT_THEME.ink },
-    margin: { l: 70, r: 20, t: 16, b: 56 },
-    legend: { orientation: 'h', x: 0, y: 1.02, yanchor: 'bottom', font: { size: 12 } },
-    xaxis: { title: { text: `Position along the line (${units.distance})` }, gridcolor: PLOT_THEME.grid, zeroline: false, anchor: 'y2' },
+    ...BASE_LAYOUT,
+    xaxis: { ...positionAxis(units.distance), anchor: 'y2' },
     yaxis: { title: { text: reducedTitle }, gridcolor: PLOT_THEME.grid, zeroline: false, domain: [0.3, 1] },
     yaxis2: {
       title: { text: `Residual (${units.time})` }, gridcolor: PLOT_THEME.grid, domain: [0, 0.22],

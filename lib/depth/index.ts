@@ -21,3 +21,19 @@ export type { BranchParameters, DepthMethod, DepthNote, LayerDepths } from './ty
 
 // Near-surface corrections of head-wave times: datum (elevations) and uphole (buried shots).
 export { buriedShotDirectTime, datumTooLow, headWaveDatumCorrection, upholeCorrection, type NearSurfaceCorrection } from './near-surface-corrections.js';
+
+// Dipping planar layers from reversed shots (true velocity, dip, depth under both shots) and the reciprocal-time check.
+export {
+  CONSISTENCY_STANDARD_ERRORS,
+  DEFAULT_CONSISTENCY_TOLERANCE,
+  dippingLayer,
+  dippingLayers,
+  reciprocalTimeCheck,
+  STEEP_DIP,
+  type DippingInterface,
+  type DippingLayers,
+  type DippingNote,
+  type DippingOptions,
+  type ReciprocalTimeCheck,
+  type ReversedBranchPair,
+} from './dipping-layer.js';

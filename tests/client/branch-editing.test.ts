@@ -8,11 +8,8 @@
  *
  * Input: the bundled demo survey sample-surveys/millbrook-quarry-bedrock.csv (invented data).
  */
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { readPickTable } from '../../lib/picks/index.js';
-import type { PickSet } from '../../lib/picks/types.js';
 import { interpret } from '../../lib/interpret.js';
 import { applyBranchEdits, type BranchEdit } from '../../lib/branches/edits.js';
 import type { Interpretation as EngineInterpretation } from '../../lib/interpretation/shape.js';
@@ -28,26 +25,13 @@ import {
   sideOfStoredPick,
   type Breakpoint,
 } from '../../client/src/branch-editing.js';
+import { applied, asClient, engineView, readTable, SAMPLE_TEXT } from './engine-inputs.js';
 
 // ---------------------------------------------------------------- the engine as oracle
 
-function loadSample(): PickSet {
-  const outcome = readPickTable(readFileSync(new URL('../../sample-surveys/millbrook-quarry-bedrock.csv', import.meta.url)));
-  if (!outcome.ok) throw new Error(`the sample survey did not load: ${outcome.problems.map((problem) => problem.message).join('; ')}`);
-  return outcome.value;
-}
 
-function applied(pickSet: PickSet, edits: readonly BranchEdit[]): PickSet {
-  const outcome = applyBranchEdits(pickSet, edits);
-  if (!outcome.ok) throw new Error(`lib refused the edits: ${outcome.problems.map((problem) => problem.message).join('; ')}`);
-  return outcome.value;
-}
 
-/** What the service shows after storing a pick set: the engine's interpretation (display units m, ms, m/s). */
-const engineView = (pickSet: PickSet): EngineInterpretation => interpret(pickSet, { scale: 'engineering' });
 
-/** lib's interpretation seen through the client's type (a structural subset, see api-types.ts). */
-const asClient = (result: EngineInterpretation): Interpretation => result;
 
 interface Membership {
   readonly side: string;
@@ -74,7 +58,7 @@ function sideOf(result: EngineInterpretation, shot: string, sideName: 'forward' 
   return side;
 }
 
-const SAMPLE = loadSample();
+const SAMPLE = readTable(SAMPLE_TEXT);
 const PICKS: readonly StoredPick[] = SAMPLE.picks;
 const BASE = engineView(SAMPLE);
 const BASE_MEMBERS = memberships(BASE);

@@ -5,15 +5,12 @@
  * the same table with ground elevations added here (an invented smooth profile, for the
  * elevation mode only: the engine reads elevations but does not correct for them yet).
  */
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { readPickTable } from '../../lib/picks/index.js';
-import type { PickSet } from '../../lib/picks/types.js';
-import { interpret } from '../../lib/interpret.js';
 import type { Interpretation as EngineInterpretation } from '../../lib/interpretation/shape.js';
 import type { Interpretation, StoredPick } from '../../client/src/api-types.js';
 import { depthFigure, groundProfile, refractorMethods, shortMethodName } from '../../client/src/depth-figure.js';
 import type { Figure, Trace } from '../../client/src/travel-time-figure.js';
+import { asClient, engineView, readTable, SAMPLE_TEXT } from './engine-inputs.js';
 
 /** Depths and elevations are display values (m) combined by one or two subtractions: 1e-9 m is far above rounding. */
 const LENGTH_TOLERANCE_M = 1e-9;
@@ -23,17 +20,8 @@ const CROSSOVER_METHOD = 'crossover-distance method under each shot side (plane 
 
 // ---------------------------------------------------------------- inputs
 
-function readTable(text: string | Uint8Array): PickSet {
-  const outcome = readPickTable(text);
-  if (!outcome.ok) throw new Error(`the pick table did not load: ${outcome.problems.map((problem) => problem.message).join('; ')}`);
-  return outcome.value;
-}
 
-const engineView = (pickSet: PickSet): EngineInterpretation => interpret(pickSet, { scale: 'engineering' });
-/** lib's interpretation seen through the client's type (a structural subset, see api-types.ts). */
-const asClient = (result: EngineInterpretation): Interpretation => result;
 
-const SAMPLE_TEXT = readFileSync(new URL('../../sample-surveys/millbrook-quarry-bedrock.csv', import.meta.url), 'utf8');
 const SAMPLE = readTable(SAMPLE_TEXT);
 const PICKS: readonly StoredPick[] = SAMPLE.picks;
 const BASE = engineView(SAMPLE);

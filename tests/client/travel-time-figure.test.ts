@@ -8,16 +8,13 @@
  * t [ms] = tᵢ [ms] + offset [m] × 1000 [ms/s] / v [m/s]; reduced time is
  * t − offset [m] × 1000 [ms/s] / V_red [m/s].
  */
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { readPickTable } from '../../lib/picks/index.js';
-import type { PickSet } from '../../lib/picks/types.js';
-import { interpret } from '../../lib/interpret.js';
-import { applyBranchEdits, type BranchEdit } from '../../lib/branches/edits.js';
+import type { BranchEdit } from '../../lib/branches/edits.js';
 import type { Interpretation as EngineInterpretation } from '../../lib/interpretation/shape.js';
 import type { Interpretation, StoredPick } from '../../client/src/api-types.js';
 import { travelTimeFigure, WEBGL_POINT_COUNT, type Figure, type Trace, type TravelTimeOptions } from '../../client/src/travel-time-figure.js';
 import { range, syntheticSurvey } from '../helpers/synthetic-survey.js';
+import { applied, asClient, engineView, readTable, SAMPLE_TEXT } from './engine-inputs.js';
 
 /**
  * Display values are the engine's SI values times 1000 (s → ms), and the figure adds or subtracts
@@ -30,23 +27,10 @@ const POSITION_TOLERANCE_M = 1e-9;
 
 // ---------------------------------------------------------------- inputs
 
-function readTable(text: string | Uint8Array): PickSet {
-  const outcome = readPickTable(text);
-  if (!outcome.ok) throw new Error(`the pick table did not load: ${outcome.problems.map((problem) => problem.message).join('; ')}`);
-  return outcome.value;
-}
 
-function applied(pickSet: PickSet, edits: readonly BranchEdit[]): PickSet {
-  const outcome = applyBranchEdits(pickSet, edits);
-  if (!outcome.ok) throw new Error(`lib refused the edits: ${outcome.problems.map((problem) => problem.message).join('; ')}`);
-  return outcome.value;
-}
 
-const engineView = (pickSet: PickSet): EngineInterpretation => interpret(pickSet, { scale: 'engineering' });
-/** lib's interpretation seen through the client's type (a structural subset, see api-types.ts). */
-const asClient = (result: EngineInterpretation): Interpretation => result;
 
-const SAMPLE = readTable(readFileSync(new URL('../../sample-surveys/millbrook-quarry-bedrock.csv', import.meta.url)));
+const SAMPLE = readTable(SAMPLE_TEXT);
 const PICKS: readonly StoredPick[] = SAMPLE.picks;
 const BASE = engineView(SAMPLE);
 const SHOT_IDS = BASE.shots.map((shot) => shot.id);
