@@ -57,8 +57,7 @@ export function indexByLine(picks: readonly StoredPick[]): Map<number, number> {
  * picks that follow the nearest line (a partial `branch` column, or picks handed back). Labelled
  * picks are left alone.
  */
-function freezeSides(result: Interpretation, picks: readonly StoredPick[], sides: ReadonlySet<string>): BranchEdit[] {
-  const index = indexByLine(picks);
+function freezeSides(result: Interpretation, picks: readonly StoredPick[], sides: ReadonlySet<string>, index = indexByLine(picks)): BranchEdit[] {
   const edits: BranchEdit[] = [];
   for (const shot of result.shots) {
     for (const side of shot.sides) {
@@ -90,7 +89,7 @@ export function assignmentEdits(result: Interpretation, picks: readonly StoredPi
     if (side !== null) sides.add(sideKey(pick.shot, side));
   }
   // 'automatic' hands picks back to the segmentation: freezing their side first would undo that.
-  const frozen = assign === 'automatic' ? [] : freezeSides(result, picks, sides);
+  const frozen = assign === 'automatic' ? [] : freezeSides(result, picks, sides, index);
   return [...frozen, ...chosen.map((line) => ({ pickIndex: index.get(line)!, assign }))];
 }
 
@@ -134,7 +133,7 @@ export function breakpointEdits(result: Interpretation, picks: readonly StoredPi
   const shot = result.shots.find((candidate) => candidate.id === breakpoint.shot);
   const side = shot?.sides.find((candidate) => candidate.side === breakpoint.side);
   if (!side) return [];
-  const edits = freezeSides(result, picks, new Set([sideKey(breakpoint.shot, breakpoint.side)]));
+  const edits = freezeSides(result, picks, new Set([sideKey(breakpoint.shot, breakpoint.side)]), index);
   for (const branch of side.branches) {
     if (branch.index !== breakpoint.lowerBranch && branch.index !== breakpoint.upperBranch) continue;
     for (const pick of branch.picks) {

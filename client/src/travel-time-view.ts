@@ -298,12 +298,13 @@ export class TravelTimeView {
       const low = from.value === '' ? -Infinity : Number(from.value);
       const high = to.value === '' ? Infinity : Number(to.value);
       const lines = new Set<number>();
-      for (const [line, place] of placesByLine(result)) {
+      const places = placesByLine(result);
+      for (const [line, place] of places) {
         if (place.shot === shot.value && place.side === side.value && place.offset >= low && place.offset <= high) lines.add(line);
       }
       this.setSelection(lines);
       if (lines.size === 0) {
-        const offsets = [...placesByLine(result).values()].filter((place) => place.shot === shot.value && place.side === side.value).map((place) => place.offset);
+        const offsets = [...places.values()].filter((place) => place.shot === shot.value && place.side === side.value).map((place) => place.offset);
         const count = this.editPanel.querySelector('#selection-count');
         if (count) {
           count.textContent = offsets.length === 0

@@ -2,6 +2,7 @@
  * The API test harness: an app over a REAL SQLite file in a fresh temporary folder (no mock of the
  * database), a log sink that collects lines, and the sample surveys as bytes.
  */
+import request from 'supertest';
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -49,4 +50,14 @@ export const SMALL_PICK_TABLE = 'shot,source_x_m,receiver_x_m,time_ms\nS1,0,10,2
 /** Count rows of a table straight from the database, to check what a request stored. */
 export function rowCount(db: Database, table: 'surveys' | 'uploads' | 'pick_sets' | 'branch_edits' | 'revisions'): number {
   return db.prepare<[], number>(`SELECT count(*) FROM ${table}`).pluck().get() ?? 0;
+}
+
+/**
+ * Creates a survey named `name` and uploads the Fenwick Meadow demo picks to it (version 2 after
+ * the upload), as most API tests start; returns its id.
+ */
+export async function surveyWithSamplePicks(harness: Harness, name = 'Fenwick Meadow'): Promise<string> {
+  const id = (await request(harness.app).post('/api/surveys').send({ name }).expect(201)).body.id as string;
+  await request(harness.app).post(`/api/surveys/${id}/picks`).set('If-Match', '"v1"').attach('file', sampleSurvey('fenwick-meadow-water-table'), 'fenwick.csv').expect(201);
+  return id;
 }

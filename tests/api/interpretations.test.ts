@@ -4,14 +4,13 @@ import { interpret } from '../../lib/interpret.js';
 import { InterpretationSchema } from '../../lib/interpretation/shape.js';
 import { readPickTable } from '../../lib/picks/index.js';
 import { MAX_BOOTSTRAP_REPLICATES } from '../../server/routes/interpret-options.js';
-import { openHarness, rowCount, sampleSurvey, type Harness } from './api-harness.js';
+import { openHarness, rowCount, sampleSurvey, surveyWithSamplePicks, type Harness } from './api-harness.js';
 
 let harness: Harness;
 let surveyId: string;
 beforeEach(async () => {
   harness = openHarness();
-  surveyId = (await request(harness.app).post('/api/surveys').send({ name: 'Fenwick Meadow' }).expect(201)).body.id;
-  await request(harness.app).post(`/api/surveys/${surveyId}/picks`).set('If-Match', '"v1"').attach('file', sampleSurvey('fenwick-meadow-water-table'), 'fenwick.csv').expect(201);
+  surveyId = await surveyWithSamplePicks(harness);
 });
 afterEach(() => harness.close());
 

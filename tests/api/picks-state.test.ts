@@ -6,14 +6,13 @@
  */
 import request from 'supertest';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { openHarness, sampleSurvey, type Harness } from './api-harness.js';
+import { openHarness, sampleSurvey, surveyWithSamplePicks, type Harness } from './api-harness.js';
 
 let harness: Harness;
 let surveyId: string;
 beforeEach(async () => {
   harness = openHarness();
-  surveyId = (await request(harness.app).post('/api/surveys').send({ name: 'Fenwick Meadow' }).expect(201)).body.id;
-  await request(harness.app).post(`/api/surveys/${surveyId}/picks`).set('If-Match', '"v1"').attach('file', sampleSurvey('fenwick-meadow-water-table'), 'fenwick.csv').expect(201);
+  surveyId = await surveyWithSamplePicks(harness);
 });
 afterEach(() => harness.close());
 
