@@ -13,3 +13,7 @@ export const STANDING_CAUTIONS: readonly string[] = [
 /** The caution that states the model's basic assumption for the horizontal-layer methods. */
 export const HORIZONTAL_LAYER_ASSUMPTION =
   'Depths here assume plane horizontal layers of constant velocity under each shot; dipping or undulating refractors need reversed shots and a delay-time method.';
+
+/** Added when depths under every receiver are given (plus-minus, GRM). */
+export const DELAY_TIME_ASSUMPTION =
+  'Depths under every receiver (plus-minus, generalized reciprocal method) assume the overburden velocities of the survey layers, a refractor velocity constant along each pair, dips under about 10° and no hidden or slower layer; they are given only where both shots of a pair record the same refractor, and the forward check shows where the section fails to explain the picks.';

@@ -25,6 +25,9 @@ import { crossoverDistanceDepths, fittedCrossovers, observedCrossover } from './
 import { bootstrapInterceptTimeDepths, type BootstrapDepths } from './depth/bootstrap.js';
 import { branchParameters } from './interpretation/branch-parameters.js';
 import { firstBranchIndices } from './interpretation/branch-identity.js';
+import { identifyRefractors, type RefractorMerge } from './interpretation/refractor-identity.js';
+import { reversedProfile, type ReversedProfile } from './interpretation/reversed-profile.js';
+import type { PairChoice } from './interpretation/reversed-pairs.js';
 import { combineSideLayers, thicknessesFromDepths, type CombinedLayers } from './interpretation/survey-layers.js';
 import { branchWarnings } from './checks/branch-checks.js';
 import { surveyWarnings, sideWarnings } from './interpretation/survey-checks.js';
@@ -50,6 +53,12 @@ export interface InterpretOptions {
   readonly sourceName?: string;
   /** Software version written into the result. */
   readonly softwareVersion?: string;
+  /** Reversed pairs for the delay-time methods: the user's choice instead of automatic pairing. */
+  readonly reversedPairs?: readonly PairChoice[] | null;
+  /** Datum elevation, m: depths under the receivers are then referred to it (times corrected, METHODS §8). */
+  readonly datumElevation?: number | null;
+  /** Run the grid forward check of the depth section. Default true. */
+  readonly forwardCheck?: boolean;
 }
 
 export const DEFAULT_OPTIONS = {
@@ -58,6 +67,9 @@ export const DEFAULT_OPTIONS = {
   seed: 1,
   minPicksPerBranch: 3,
   maxBranches: 5,
+  reversedPairs: null as readonly PairChoice[] | null,
+  datumElevation: null as number | null,
+  forwardCheck: true,
 };
 
 /** Time resolution assumed for picks of each scale of table (s): 0.1 ms engineering, 10 ms crustal (common practice). */
@@ -90,6 +102,10 @@ export interface SurveyResult {
   readonly combined: CombinedLayers;
   readonly model: LayeredModel | null;
   readonly residuals: ForwardResiduals;
+  /** Branch splits tested against reversed minus times (`refractor-identity.ts`). */
+  readonly refractorTests: readonly RefractorMerge[];
+  /** Pairs, dipping layers and depths under every receiver (`reversed-profile.ts`). */
+  readonly reversed: ReversedProfile;
   readonly warnings: readonly InterpretationWarning[];
 }
 
@@ -122,11 +138,15 @@ export function interpretSurvey(
   const firstPass = splitShotSides(pickSet).map((side: SidePicks) => segment(side, segmentOptions));
   // Off-end shots may start on a head wave: number their branches by the survey's layers.
   const firstIndices = firstBranchIndices(firstPass, timeResolution);
-  const segmentations = firstPass.map((segmentation, k) =>
+  const numbered = firstPass.map((segmentation, k) =>
     (firstIndices[k] ?? 1) === (segmentation.branches[0]?.index ?? 1)
       ? segmentation
       : segment(segmentation.sidePicks, { ...segmentOptions, firstBranchIndex: firstIndices[k] ?? 1 }),
   );
+  // An undulating refractor splits into branches of different apparent velocity; reversed minus
+  // times tell such a split from a deeper layer, and the split is undone.
+  const identity = identifyRefractors(numbered, { timeResolution, fitMethod: settings.fitMethod });
+  const segmentations = identity.segmentations;
 
   // The survey's direct-wave slowness, for sides that show no direct branch of their own.
   const directFits = segmentations.flatMap((segmentation) =>
@@ -156,7 +176,32 @@ export function interpretSurvey(
     warnings.push(...sideWarnings(side, model));
   }
   warnings.push(...surveyWarnings({ pickSet, sides, combined, model, residuals, timeResolution }));
-  return { pickSet, sides, combined, model, residuals, warnings };
+  warnings.push(...mergeWarnings(identity.tests));
+  const reversed = reversedProfile(pickSet, segmentations, combined, {
+    pairs: settings.reversedPairs,
+    datumElevation: settings.datumElevation,
+    timeResolution,
+    forwardCheck: settings.forwardCheck,
+  });
+  warnings.push(...reversed.warnings);
+  return { pickSet, sides, combined, model, residuals, refractorTests: identity.tests, reversed, warnings };
+}
+
+function mergeWarnings(tests: readonly RefractorMerge[]): InterpretationWarning[] {
+  return tests
+    .filter((test) => test.merged)
+    .map((test) => {
+      const straightest = test.evidence.filter((entry) => entry.verdict === 'straight');
+      const pairs = straightest.slice(0, 3).map((entry) => `${entry.forwardShot}–${entry.reverseShot}`).join(', ');
+      const largest = Math.max(...straightest.map((entry) => entry.relativeBend));
+      return {
+        code: 'branches-one-refractor' as const,
+        level: 'info' as const,
+        message: `survey: the automatic split of head-wave branches ${test.branch} and ${test.branch + 1} was undone — the reversed minus times of ${straightest.length} pair(s) (${pairs}) run straight across it (bend at most ${(largest * 100).toFixed(1)} % of the refractor slowness), so it is one refractor whose depth changes, not a deeper layer; assign the branches yourself if a borehole says otherwise`,
+        branch: test.branch,
+        details: { pairs: straightest.length, largestBend: largest },
+      };
+    });
 }
 
 function depthsForSide(

@@ -3,7 +3,8 @@
  * The slopebreak command line.
  *
  *   slopebreak interpret FILE [--json] [--robust | --fit METHOD] [--bootstrap N] [--seed S]
- *                             [--scale engineering|crustal]
+ *                             [--scale engineering|crustal] [--pair A:B]... [--datum ELEV]
+ *                             [--no-forward-check]
  *   slopebreak schema            print the JSON Schema of the interpretation
  *   slopebreak --help | --version
  *
@@ -46,6 +47,11 @@ interpret options:
   --scale SCALE          engineering (m, ms, m/s) or crustal (km, s, km/s); default from the table
   --max-branches N       most branches per shot side (default 5)
   --min-picks N          fewest picks per automatic branch (default 3)
+  --pair A:B             use this reversed pair (shot A's forward side, shot B's reverse side)
+                         for the depths under the receivers; repeatable; default: automatic
+  --datum ELEV           refer depths under the receivers to a flat datum at ELEV metres
+                         (needs source and receiver elevations in the table)
+  --no-forward-check     skip the grid forward check of the depth section
 
 serve options:
   --host H               interface to listen on (default 127.0.0.1; 0.0.0.0 opens it to the office network)
@@ -80,9 +86,24 @@ function runInterpret(args: readonly string[]): number {
       scale: { type: 'string' },
       'max-branches': { type: 'string' },
       'min-picks': { type: 'string' },
+      pair: { type: 'string', multiple: true },
+      datum: { type: 'string' },
+      'no-forward-check': { type: 'boolean' },
     },
   });
   if (positionals.length !== 1) throw new UsageError('interpret takes exactly one pick-table file');
+  const reversedPairs = values.pair?.map((text) => {
+    const parts = text.split(':');
+    if (parts.length !== 2 || parts[0]!.trim() === '' || parts[1]!.trim() === '') {
+      throw new UsageError(`--pair takes FORWARD:REVERSE, two shot ids joined by one colon (the shot whose forward side, then the shot whose reverse side), got "${text}"`);
+    }
+    return { forwardShot: parts[0]!.trim(), reverseShot: parts[1]!.trim() };
+  });
+  let datumElevation: number | undefined;
+  if (values.datum !== undefined) {
+    if (!/^-?\d+(\.\d+)?$/.test(values.datum.trim())) throw new UsageError(`--datum takes an elevation in metres, e.g. 95.5, got "${values.datum}"`);
+    datumElevation = Number(values.datum);
+  }
   const file = positionals[0]!;
   const fitNames: readonly FitMethod[] = ['least-squares', 'huber', 'theil-sen'];
   if (values.fit !== undefined && !fitNames.includes(values.fit as FitMethod)) {
@@ -124,6 +145,9 @@ function runInterpret(args: readonly string[]): number {
     scale: values.scale as 'engineering' | 'crustal' | undefined,
     maxBranches,
     minPicksPerBranch,
+    reversedPairs: reversedPairs ?? null,
+    datumElevation: datumElevation ?? null,
+    forwardCheck: !values['no-forward-check'],
     sourceName: basename(file),
     softwareVersion: softwareVersion(),
   });

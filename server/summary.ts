@@ -104,6 +104,7 @@ export function formatSummary(result: Interpretation): string {
     '  — crossover-distance: no crossover readable from the picks (no direct-wave picks on that side, or branches overlapping);',
     `  — bootstrap: ${replicates > 0 ? 'not computed for that side (its top-layer velocity is borrowed)' : 'not asked for (--bootstrap N)'}`,
   );
+  out.push(...reversedProfileLines(result, { distanceDigits, timeDigits, velocityDigits }));
   out.push('');
   const rmsList = result.residuals.perShot.map((entry) => `${entry.shot} ${fixed(entry.rms, timeDigits)}`).join(', ');
   out.push(`FIT TO THE PICKS  RMS of picks − layered model (${units.time}): overall ${fixed(result.residuals.overallRms, timeDigits)}`);
@@ -120,4 +121,96 @@ export function formatSummary(result: Interpretation): string {
     out.push(...wrap(`* ${caution}`, '  ').map((line, k) => (k === 0 ? line : `    ${line.trimStart()}`)));
   }
   return out.join('\n') + '\n';
+}
+
+interface Digits {
+  readonly distanceDigits: number;
+  readonly timeDigits: number;
+  readonly velocityDigits: number;
+}
+
+/** Worst receivers of the forward check listed in the summary. */
+const WORST_RECEIVERS = 5;
+
+/** Reversed pairs, dipping layers, the depth section under every receiver and its forward check. */
+function reversedProfileLines(result: Interpretation, digits: Digits): string[] {
+  const { units } = result;
+  const { distanceDigits, timeDigits, velocityDigits } = digits;
+  const out: string[] = [];
+  if (result.reversedPairs.length === 0) return out;
+  out.push('');
+  out.push(`REVERSED PAIRS  (refractor n = top of layer n; reciprocal times in ${units.time}; velocities ${units.velocity})`);
+  out.push(
+    ...table(
+      ['pair', 'n', 'A at B', 'B at A', 'misfit', 'plus-minus V', 'GRM V', `GRM XY ${units.distance}`],
+      result.reversedPairs.map((pair) => [
+        pair.id,
+        String(pair.refractor),
+        fixed(pair.reciprocalTime.forwardAtReverseShot, timeDigits),
+        fixed(pair.reciprocalTime.reverseAtForwardShot, timeDigits),
+        pair.reciprocalTime.misfit === null ? 'unchecked' : `${fixed(pair.reciprocalTime.misfit, timeDigits)}${pair.reciprocalTime.exceeds ? ' !' : ''}`,
+        plusMinus(pair.plusMinus.velocity, pair.plusMinus.velocitySE, velocityDigits),
+        plusMinus(pair.generalizedReciprocal.velocity, pair.generalizedReciprocal.velocitySE, velocityDigits),
+        fixed(pair.generalizedReciprocal.optimumXY, distanceDigits),
+      ]),
+    ),
+  );
+  if (result.reversedPairs.some((pair) => pair.reciprocalTime.exceeds)) out.push('  ! reciprocal times differ by more than the picks allow (see the warnings)');
+  if (result.dippingLayers.length > 0) {
+    out.push('');
+    out.push(`DIPPING LAYERS UNDER EACH PAIR OF SHOTS  (${units.distance}, ${units.velocity}; dip + deepens from A to B)`);
+    const rows: string[][] = [];
+    for (const entry of result.dippingLayers) {
+      entry.interfaces.forEach((layer, k) => {
+        rows.push([
+          k === 0 ? `${entry.forwardShot} → ${entry.reverseShot}` : '',
+          String(layer.interface),
+          plusMinus(layer.trueVelocity, layer.trueVelocitySE, velocityDigits),
+          plusMinus(layer.dipDegrees, layer.dipDegreesSE, 1),
+          plusMinus(layer.depthUnderForwardShot, layer.depthUnderForwardShotSE, distanceDigits),
+          plusMinus(layer.depthUnderReverseShot, layer.depthUnderReverseShotSE, distanceDigits),
+        ]);
+      });
+    }
+    out.push(...table(['pair A → B', 'iface', 'true velocity', 'dip °', 'depth under A', 'depth under B'], rows));
+  }
+  const sections = result.refractors.filter((refractor) => refractor.points.some((point) => point.pair !== null));
+  for (const iface of [...new Set(sections.map((section) => section.interface))]) {
+    const plus = sections.find((section) => section.interface === iface && section.method.startsWith('plus-minus'));
+    const grm = sections.find((section) => section.interface === iface && section.method.startsWith('generalized'));
+    const byX = new Map<string, { x: number; plus?: (typeof sections)[number]['points'][number]; grm?: (typeof sections)[number]['points'][number] }>();
+    for (const point of plus?.points ?? []) byX.set(point.x.toFixed(6), { ...(byX.get(point.x.toFixed(6)) ?? { x: point.x }), plus: point });
+    for (const point of grm?.points ?? []) byX.set(point.x.toFixed(6), { ...(byX.get(point.x.toFixed(6)) ?? { x: point.x }), grm: point });
+    const ordered = [...byX.values()].sort((left, right) => left.x - right.x);
+    const withElevation = ordered.some((row) => (row.grm?.elevation ?? row.plus?.elevation ?? null) !== null);
+    const rows = ordered.map((row) => [
+      fixed(row.x, distanceDigits),
+      plusMinus(row.plus?.depth, row.plus?.depthSE, distanceDigits),
+      plusMinus(row.grm?.depth, row.grm?.depthSE, distanceDigits),
+      ...(withElevation ? [fixed(row.grm?.elevation ?? row.plus?.elevation, distanceDigits)] : []),
+      row.grm?.pair ?? row.plus?.pair ?? '—',
+    ]);
+    out.push('');
+    out.push(`DEPTH SECTION, INTERFACE ${iface}  (top of layer ${iface + 1}; depth below ground under every receiver, ${units.distance})`);
+    out.push(...table([`x ${units.distance}`, 'plus-minus', 'GRM', ...(withElevation ? ['refractor elevation'] : []), 'pair (GRM)'], rows));
+    const seams = grm?.seams ?? plus?.seams ?? [];
+    if (seams.length > 0) {
+      out.push(`  seams (the pair changes; step = new pair − old pair where both cover, ${units.distance}):`);
+      out.push(
+        ...wrap(
+          seams.map((seam) => `${fixed(seam.x, distanceDigits)}: (${seam.fromPair}) to (${seam.toPair}), step ${seam.step === null ? 'no common receivers' : plusMinus(seam.step, seam.stepSE, distanceDigits)}`).join('; '),
+          '    ',
+        ),
+      );
+    }
+  }
+  const check = result.forwardCheck;
+  if (check) {
+    out.push('');
+    out.push(`FORWARD CHECK  picks − times through the ${check.model.includes('plus-minus') ? 'plus-minus' : 'GRM'} section on a ${fixed(check.grid.spacing, distanceDigits + 1)} ${units.distance} grid (${units.time}): overall RMS ${fixed(check.overallRms, timeDigits)}`);
+    out.push(...wrap(check.perShot.map((entry) => `${entry.shot} ${fixed(entry.rms, timeDigits)} (mean ${fixed(entry.mean, timeDigits)})`).join(', '), '  '));
+    const worst = [...check.perReceiver].filter((entry) => entry.rms !== null).sort((left, right) => (right.rms ?? 0) - (left.rms ?? 0)).slice(0, WORST_RECEIVERS);
+    out.push(`  worst receivers: ${worst.map((entry) => `${fixed(entry.receiverX, distanceDigits)} ${units.distance}: ${fixed(entry.rms, timeDigits)}`).join(', ')}`);
+  }
+  return out;
 }

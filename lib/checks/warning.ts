@@ -48,6 +48,14 @@ export const WARNING_CODES = {
   'thickness-not-positive': 'A layer came out with zero or negative thickness: velocity inversion, hidden layer or a wrong branch.',
   'lateral-variation': 'Depths or velocities differ between shots by more than their uncertainties: dipping or undulating layers.',
   'missing-layer-branch': 'A shot side shows no branch for a layer seen on other shots.',
+  'branches-one-refractor': 'Branches that automatic segmentation split by apparent velocity were joined: reversed minus times show one refractor of changing depth, not a deeper layer.',
+  // --- reversed profiles
+  'reciprocal-time-misfit': 'The reciprocal times of a reversed pair (shot A at B, shot B at A) differ by more than the picks allow.',
+  'reciprocal-time-shot-suspect': 'Every reversed pair with this shot misfits its reciprocal time while the others agree: its time zero or position is suspect.',
+  'reversed-pair-refused': 'A reversed pair the user named cannot be formed (no common refractor, too few common receivers or no reciprocal time).',
+  'no-reversed-coverage': 'No receiver has the same refractor recorded from both directions, so no depth under the receivers is given.',
+  'delay-time-note': 'The plus-minus or generalized reciprocal method reported a limitation of its result.',
+  'forward-check-misfit': 'The travel times computed through the interpreted depth section miss this shot\'s or receiver\'s picks by more than their uncertainty.',
   // --- forward model
   'model-misfit': 'The interpreted model explains this shot worse than the picks\' uncertainty.',
   // --- the survey as a whole

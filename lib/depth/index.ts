@@ -37,3 +37,7 @@ export {
   type ReciprocalTimeCheck,
   type ReversedBranchPair,
 } from './dipping-layer.js';
+// Delay-time methods under every receiver of a reversed pair: plus-minus (Hagedoorn 1959) and the GRM (Palmer 1980).
+export { delayToDepth, planeLayerOptimumXY, steepRefractorNote, type DelayDepth, type Overburden, type RefractorArrivals, type ReversedArrivals } from './delay-depth.js';
+export { commonReceivers, plusMinus, type PlusMinusNote, type PlusMinusReceiver, type PlusMinusResult } from './plus-minus.js';
+export { generalizedReciprocal, type GrmNote, type GrmOptions, type GrmReceiver, type GrmResult, type GrmScanRow } from './generalized-reciprocal.js';

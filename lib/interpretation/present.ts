@@ -10,7 +10,9 @@ import { distanceFromSI, timeFromSI, velocityFromSI } from '../units.js';
 import type { LayerDepths } from '../depth/types.js';
 import type { Branch } from '../branches/types.js';
 import { REFERENCES, type ReferenceKey } from '../references.js';
-import { STANDING_CAUTIONS, HORIZONTAL_LAYER_ASSUMPTION } from '../cautions.js';
+import { STANDING_CAUTIONS, HORIZONTAL_LAYER_ASSUMPTION, DELAY_TIME_ASSUMPTION } from '../cautions.js';
+import { FORWARD_CHECK_REFERENCES } from '../model/forward-check.js';
+import type { DelayMethod } from './reversed-profile.js';
 import { thicknessesFromDepths } from './survey-layers.js';
 import type { BranchResult, Interpretation, LayerResult, RefractorResult, ShotSideResult } from './shape.js';
 
@@ -23,6 +25,15 @@ export interface PresentOptions {
 
 const VELOCITY_REFERENCES: ReferenceKey[] = ['Telford1990', 'Press2007', 'Bevington2003'];
 const DEPTH_REFERENCES: ReferenceKey[] = ['Telford1990', 'Kearey2002', 'Palmer1986', 'JCGM2008'];
+const DELAY_METHOD_WORDS: Record<DelayMethod, string> = {
+  'plus-minus': 'plus-minus method',
+  'generalized-reciprocal': 'generalized reciprocal method at its optimum XY',
+};
+const DELAY_METHOD_REFERENCES: Record<DelayMethod, ReferenceKey[]> = {
+  'plus-minus': ['Hagedoorn1959', 'JCGM2008'],
+  'generalized-reciprocal': ['Palmer1980', 'JCGM2008'],
+};
+const DIPPING_REFERENCES: ReferenceKey[] = ['Telford1990', 'Kearey2002', 'Adachi1954', 'Mota1954', 'Johnson1976'];
 const FIT_REFERENCES: Record<string, ReferenceKey[]> = {
   'least-squares': ['Press2007', 'Bevington2003'],
   'theil-sen': ['Theil1950', 'Sen1968'],
@@ -110,16 +121,137 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
             depth: distance(depth),
             depthSE: distance(depths.depthSE[k] ?? Number.NaN),
             elevation: elevation === null ? null : distance(elevation - depth),
+            depthBelowDatum: null,
             shot: sidePicks.shot,
             side: sidePicks.side,
+            pair: null,
           },
         ];
       }),
+      velocity: null,
+      velocitySE: null,
+      seams: [],
     }));
+  const { reversed } = result;
+  const pairId = (index: number) => {
+    const pair = reversed.pairs[index]?.pair;
+    return pair ? `${pair.forward.shot} → ${pair.reverse.shot}` : '';
+  };
+  const delayRefractors: RefractorResult[] = reversed.sections.map((section) => ({
+    interface: section.refractor - 1,
+    method: `${DELAY_METHOD_WORDS[section.method]} under every receiver with reversed coverage (${reversed.referenceSurface === 'datum' ? 'times corrected to the datum' : 'delays below the ground at each receiver'})`,
+    references: DELAY_METHOD_REFERENCES[section.method],
+    velocity: section.velocity === null ? null : velocity(section.velocity.value),
+    velocitySE: section.velocity === null ? null : velocity(section.velocity.standardError),
+    points: section.points.map((point) => ({
+      x: distance(point.x),
+      depth: distance(point.depthBelowGround ?? point.depth),
+      depthSE: distance(point.depthSE),
+      elevation: point.elevation === null ? null : distance(point.elevation),
+      depthBelowDatum: reversed.referenceSurface === 'datum' ? distance(point.depth) : null,
+      shot: null,
+      side: null,
+      pair: pairId(point.pair),
+    })),
+    seams: section.seams.map((seam) => ({
+      x: distance(seam.x),
+      fromPair: pairId(seam.fromPair),
+      toPair: pairId(seam.toPair),
+      step: seam.step === null ? null : distance(seam.step),
+      stepSE: seam.stepSE === null ? null : distance(seam.stepSE),
+      commonReceivers: seam.commonReceivers,
+    })),
+  }));
   const refractors: RefractorResult[] = [
     ...refractorsBy('intercept-time method under each shot side (plane horizontal layers)', (side) => side.interceptTime),
     ...refractorsBy('crossover-distance method under each shot side (plane horizontal layers)', (side) => side.crossoverDistance),
+    ...delayRefractors,
   ].filter((refractor) => refractor.points.length > 0);
+  const optionalEstimate = (estimate: { value: number; standardError: number } | null, convert: (value: number) => number) => ({
+    value: estimate === null ? null : convert(estimate.value),
+    se: estimate === null ? null : convert(estimate.standardError),
+  });
+  const range = (pair: readonly [number, number] | null): [number, number] | null => (pair === null ? null : [distance(pair[0]), distance(pair[1])]);
+  const reversedPairs = reversed.pairs.map(({ pair, plusMinus, generalizedReciprocal: grm }, index) => {
+    const pm = optionalEstimate(plusMinus.velocity, velocity);
+    const gv = optionalEstimate(grm.velocity, velocity);
+    return {
+      id: pairId(index),
+      forwardShot: pair.forward.shot,
+      reverseShot: pair.reverse.shot,
+      refractor: pair.refractor,
+      chosenBy: pair.chosenBy,
+      spreadLength: distance(pair.spreadLength),
+      commonReceivers: pair.commonReceivers,
+      overlap: [distance(pair.overlap[0]), distance(pair.overlap[1])] as [number, number],
+      reciprocalTime: {
+        forwardAtReverseShot: pair.forwardAtReverseShot === null ? null : time(pair.forwardAtReverseShot.value),
+        reverseAtForwardShot: pair.reverseAtForwardShot === null ? null : time(pair.reverseAtForwardShot.value),
+        from: [pair.forwardAtReverseShot, pair.reverseAtForwardShot].filter((reading) => reading !== null).map((reading) => reading.from),
+        value: time(pair.reciprocalTime.value),
+        valueSE: time(pair.reciprocalTime.standardError),
+        misfit: pair.check === null ? null : time(pair.check.misfit),
+        limit: pair.check === null ? null : time(pair.check.limit),
+        exceeds: pair.check === null ? null : pair.check.exceeds,
+      },
+      plusMinus: { velocity: pm.value, velocitySE: pm.se, receiverCount: plusMinus.receivers.length, coverage: range(plusMinus.coverage) },
+      generalizedReciprocal: {
+        velocity: gv.value,
+        velocitySE: gv.se,
+        receiverCount: grm.receivers.length,
+        coverage: range(grm.coverage),
+        optimumXY: grm.optimum === null ? null : distance(grm.optimum.xy),
+        reason: grm.optimum?.reason ?? null,
+        planeLayerXY: grm.optimum?.planeLayerXY == null ? null : distance(grm.optimum.planeLayerXY),
+        resolved: grm.optimum?.resolved ?? null,
+        mismatch: grm.optimum?.mismatch ?? null,
+        scan: grm.scan.map((row) => ({
+          xy: distance(row.xy),
+          pointCount: row.pointCount,
+          velocity: row.velocity === null ? null : velocity(row.velocity),
+          roughness: row.roughness === null ? null : time(row.roughness),
+          noiseRoughness: row.noiseRoughness === null ? null : time(row.noiseRoughness),
+        })),
+      },
+    };
+  });
+  const degrees = (radians: number) => (radians * 180) / Math.PI;
+  const dippingLayers = reversed.dipping.map((entry) => ({
+    forwardShot: entry.forwardShot,
+    reverseShot: entry.reverseShot,
+    spreadLength: distance(entry.spreadLength),
+    interfaces: entry.result.interfaces.map((layer) => ({
+      interface: layer.interface,
+      trueVelocity: velocity(layer.refractorVelocity.value),
+      trueVelocitySE: velocity(layer.refractorVelocity.standardError),
+      dipDegrees: degrees(layer.dip.value),
+      dipDegreesSE: degrees(layer.dip.standardError),
+      depthUnderForwardShot: distance(layer.verticalDepthA.value),
+      depthUnderForwardShotSE: distance(layer.verticalDepthA.standardError),
+      depthUnderReverseShot: distance(layer.verticalDepthB.value),
+      depthUnderReverseShotSE: distance(layer.verticalDepthB.standardError),
+    })),
+    notes: entry.result.notes.map((note) => note.message),
+  }));
+  const checked = reversed.forwardCheck;
+  const summary = (entry: { pickCount: number; rms: number | null; mean: number | null }) => ({
+    pickCount: entry.pickCount,
+    rms: entry.rms === null ? null : time(entry.rms),
+    mean: entry.mean === null ? null : time(entry.mean),
+  });
+  const forwardCheck =
+    checked === null
+      ? null
+      : {
+          model: `first arrivals on a grid through the ${DELAY_METHOD_WORDS[checked.method]} depth section (velocities: the survey's overburden and the section's refractor velocity; flat top, relief not modelled; interfaces held level beyond the reversed coverage)`,
+          method: 'shortest-path first arrivals on a grid',
+          references: [...FORWARD_CHECK_REFERENCES],
+          grid: { spacing: distance(checked.result.grid.spacing), radius: checked.result.grid.radius, columns: checked.result.grid.columns, rows: checked.result.grid.rows },
+          overallRms: checked.result.overallRms === null ? null : time(checked.result.overallRms),
+          perShot: checked.result.perShot.map((entry) => ({ shot: entry.shot, ...summary(entry) })),
+          perReceiver: checked.result.perReceiver.map((entry) => ({ receiverX: distance(entry.receiverX), ...summary(entry) })),
+          notes: checked.result.notes.map((note) => note.message),
+        };
 
   const usedReferences = new Set<ReferenceKey>([
     ...VELOCITY_REFERENCES,
@@ -131,6 +263,8 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
     'Soske1959',
     'Redpath1973',
     ...(present.options.bootstrapReplicates > 0 ? (['Efron1979', 'Efron1993'] as ReferenceKey[]) : []),
+    ...(reversed.pairs.length > 0 ? (['Hagedoorn1959', 'Palmer1980', ...DIPPING_REFERENCES] as ReferenceKey[]) : []),
+    ...(checked !== null ? FORWARD_CHECK_REFERENCES : []),
   ]);
 
   return {
@@ -144,6 +278,9 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
       seed: present.options.seed,
       minPicksPerBranch: present.options.minPicksPerBranch,
       maxBranches: present.options.maxBranches,
+      reversedPairs: present.options.reversedPairs === null ? null : present.options.reversedPairs.map((choice) => ({ forwardShot: choice.forwardShot, reverseShot: choice.reverseShot })),
+      datumElevation: present.options.datumElevation === null ? null : distance(present.options.datumElevation),
+      forwardCheck: present.options.forwardCheck,
     },
     summary: {
       shotCount: pickSet.shotIds.length,
@@ -155,6 +292,9 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
     layers,
     shots,
     refractors,
+    reversedPairs,
+    dippingLayers,
+    forwardCheck,
     residuals: {
       model: 'first arrivals of the survey layered model (plane horizontal layers, the velocities and depths in `layers`)',
       overallRms: result.residuals.overallRms === null ? null : time(result.residuals.overallRms),
@@ -166,7 +306,7 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
       })),
     },
     warnings: result.warnings.map((warning) => ({ ...warning, details: warning.details ? { ...warning.details } : undefined })).map(dropUndefined),
-    cautions: [...STANDING_CAUTIONS, HORIZONTAL_LAYER_ASSUMPTION],
+    cautions: [...STANDING_CAUTIONS, HORIZONTAL_LAYER_ASSUMPTION, ...(reversed.sections.length > 0 ? [DELAY_TIME_ASSUMPTION] : [])],
     references: [...usedReferences].sort().map((key) => ({ key, citation: REFERENCES[key] })),
   };
 }

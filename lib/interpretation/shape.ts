@@ -149,22 +149,122 @@ export const ShotSchema = z.strictObject({
   sides: z.array(ShotSideSchema),
 });
 
+export const SeamSchema = z.strictObject({
+  /** Where the section passes from one reversed pair's result to another's. */
+  x: num,
+  fromPair: z.string(),
+  toPair: z.string(),
+  /** Mean depth of the new pair minus the old one's at the receivers both cover; null when none. */
+  step: nullableNumber,
+  stepSE: nullableNumber,
+  commonReceivers: z.number().int(),
+});
+
 export const RefractorSchema = z.strictObject({
   /** Interface k is the top of layer k+1. */
   interface: z.number().int().min(1),
   method: z.string(),
   references: z.array(z.string()),
+  /** Refractor velocity this method found (delay-time methods: V_n′ along the line), null for per-shot methods. */
+  velocity: nullableNumber,
+  velocitySE: nullableNumber,
   points: z.array(
     z.strictObject({
       x: num,
+      /** Depth below the ground at x. */
       depth: num,
       depthSE: num,
-      /** Ground elevation minus depth, when elevations were given. */
+      /** Refractor elevation (ground or datum elevation minus depth), when elevations were given. */
       elevation: nullableNumber,
+      /** Depth below the datum, when a datum was given. */
+      depthBelowDatum: nullableNumber,
       shot: z.string().nullable(),
       side: z.enum(['forward', 'reverse']).nullable(),
+      /** The reversed pair ("A → B") a per-receiver point comes from; null for per-shot methods. */
+      pair: z.string().nullable(),
     }),
   ),
+  /** Where the merged section changes pair (several spreads or shot pairs); empty for per-shot methods. */
+  seams: z.array(SeamSchema),
+});
+
+export const ReversedPairSchema = z.strictObject({
+  /** "A → B": shot A's forward side with shot B's reverse side. */
+  id: z.string(),
+  forwardShot: z.string(),
+  reverseShot: z.string(),
+  /** Refractor n: the head-wave branch along the top of layer n. */
+  refractor: z.number().int().min(2),
+  chosenBy: z.enum(['automatic', 'user']),
+  spreadLength: num,
+  commonReceivers: z.number().int(),
+  overlap: z.tuple([num, num]),
+  reciprocalTime: z.strictObject({
+    /** Shot A's time at B and shot B's time at A, when read; `from` says how. */
+    forwardAtReverseShot: nullableNumber,
+    reverseAtForwardShot: nullableNumber,
+    from: z.array(z.string()),
+    value: num,
+    valueSE: num,
+    /** t_AB − t_BA and the limit √2·σ + tolerance; null when only one was read. */
+    misfit: nullableNumber,
+    limit: nullableNumber,
+    exceeds: z.boolean().nullable(),
+  }),
+  plusMinus: z.strictObject({
+    velocity: nullableNumber,
+    velocitySE: nullableNumber,
+    receiverCount: z.number().int(),
+    coverage: z.tuple([num, num]).nullable(),
+  }),
+  generalizedReciprocal: z.strictObject({
+    velocity: nullableNumber,
+    velocitySE: nullableNumber,
+    receiverCount: z.number().int(),
+    coverage: z.tuple([num, num]).nullable(),
+    optimumXY: nullableNumber,
+    /** Why that XY: one sentence. */
+    reason: z.string().nullable(),
+    /** Palmer's plane-layer optimum 2·Σh·tanθ from the resulting depths. */
+    planeLayerXY: nullableNumber,
+    resolved: z.boolean().nullable(),
+    mismatch: z.boolean().nullable(),
+    scan: z.array(z.strictObject({ xy: num, pointCount: z.number().int(), velocity: nullableNumber, roughness: nullableNumber, noiseRoughness: nullableNumber })),
+  }),
+});
+
+export const DippingLayersSchema = z.strictObject({
+  forwardShot: z.string(),
+  reverseShot: z.string(),
+  spreadLength: num,
+  interfaces: z.array(
+    z.strictObject({
+      interface: z.number().int().min(1),
+      trueVelocity: num,
+      trueVelocitySE: num,
+      /** Degrees, positive when the interface deepens from the forward shot towards the reverse shot. */
+      dipDegrees: num,
+      dipDegreesSE: num,
+      /** Vertical depth under each shot. */
+      depthUnderForwardShot: num,
+      depthUnderForwardShotSE: num,
+      depthUnderReverseShot: num,
+      depthUnderReverseShotSE: num,
+    }),
+  ),
+  notes: z.array(z.string()),
+});
+
+export const ForwardCheckSchema = z.strictObject({
+  /** The depth section whose travel times were computed. */
+  model: z.string(),
+  method: z.string(),
+  references: z.array(z.string()),
+  grid: z.strictObject({ spacing: num, radius: z.number().int(), columns: z.number().int(), rows: z.number().int() }),
+  overallRms: nullableNumber,
+  perShot: z.array(z.strictObject({ shot: z.string(), pickCount: z.number().int(), rms: nullableNumber, mean: nullableNumber })),
+  perReceiver: z.array(z.strictObject({ receiverX: num, pickCount: z.number().int(), rms: nullableNumber, mean: nullableNumber })),
+  notes: z.array(z.string()),
 });
 
 export const ResidualsSchema = z.strictObject({
@@ -204,6 +304,10 @@ export const InterpretationSchema = z.strictObject({
     seed: z.number().int(),
     minPicksPerBranch: z.number().int(),
     maxBranches: z.number().int(),
+    /** The user's reversed pairs, or null for automatic pairing. */
+    reversedPairs: z.array(z.strictObject({ forwardShot: z.string(), reverseShot: z.string() })).nullable(),
+    datumElevation: nullableNumber,
+    forwardCheck: z.boolean(),
   }),
   summary: z.strictObject({
     shotCount: z.number().int(),
@@ -215,6 +319,12 @@ export const InterpretationSchema = z.strictObject({
   layers: z.array(LayerSchema),
   shots: z.array(ShotSchema),
   refractors: z.array(RefractorSchema),
+  /** Reversed pairs of shot sides per refractor, their reciprocal times and delay-time results. */
+  reversedPairs: z.array(ReversedPairSchema),
+  /** Plane dipping layers under each pair of shots (true velocity, dip, depth under both shots). */
+  dippingLayers: z.array(DippingLayersSchema),
+  /** Travel times through the per-receiver depth section on a grid, against the picks; null when there is no such section. */
+  forwardCheck: ForwardCheckSchema.nullable(),
   residuals: ResidualsSchema,
   warnings: z.array(WarningSchema),
   cautions: z.array(z.string()),
@@ -227,6 +337,9 @@ export type ShotResult = z.infer<typeof ShotSchema>;
 export type ShotSideResult = z.infer<typeof ShotSideSchema>;
 export type BranchResult = z.infer<typeof BranchResultSchema>;
 export type RefractorResult = z.infer<typeof RefractorSchema>;
+export type ReversedPairResult = z.infer<typeof ReversedPairSchema>;
+export type DippingLayersResult = z.infer<typeof DippingLayersSchema>;
+export type ForwardCheckResult = z.infer<typeof ForwardCheckSchema>;
 
 /** The JSON Schema (draft 2020-12) of the interpretation, for users' own validators. */
 export function interpretationJsonSchema(): unknown {

@@ -26,3 +26,22 @@ export {
   type StarOffset,
   type TravelTimeField,
 } from './shortest-path.js';
+
+// Forward check of an interpreted depth section: first arrivals on a grid against the picks.
+export {
+  DEFAULT_FORWARD_CHECK_MAX_NODES,
+  DEFAULT_FORWARD_CHECK_RADIUS,
+  FORWARD_CHECK_REFERENCES,
+  forwardCheck,
+  type DepthSection,
+  type ForwardCheck,
+  type ForwardCheckGrid,
+  type ForwardCheckNote,
+  type ForwardCheckOptions,
+  type ForwardCheckPick,
+  type ForwardCheckShot,
+  type ReceiverResiduals,
+  type ResidualSummary,
+  type SectionInterface,
+  type ShotResiduals,
+} from './forward-check.js';

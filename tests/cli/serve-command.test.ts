@@ -15,6 +15,9 @@ import { applyMigrations, openDatabase } from '../../server/storage/database.js'
 import { MIGRATIONS } from '../../server/storage/migrations.js';
 import { createSurveyStore } from '../../server/storage/survey-store.js';
 
+/** The pick tables in sample-surveys/ (one survey each when loaded). */
+const SAMPLE_COUNT = readdirSync('sample-surveys').filter((name) => name.endsWith('.csv')).length;
+
 
 
 /** Start `serve` and resolve with the child and its first URL once it says where it listens. */
@@ -57,7 +60,7 @@ describe('slopebreak serve', () => {
       await done;
     }
     const db = openDatabase(join(data, 'slopebreak.sqlite'));
-    expect(createSurveyStore(db).listSurveys({}).length).toBe(2);
+    expect(createSurveyStore(db).listSurveys({}).length).toBe(SAMPLE_COUNT);
     db.close();
   });
 
@@ -79,7 +82,7 @@ describe('slopebreak backup', () => {
     const run = spawnSync(process.execPath, [CLI, 'backup', '--data', data, '--to', copy], { encoding: 'utf8', timeout: 20_000 });
     expect(run.status).toBe(0);
     const db = openDatabase(copy);
-    expect(createSurveyStore(db).listSurveys({}).length).toBe(2);
+    expect(createSurveyStore(db).listSurveys({}).length).toBe(SAMPLE_COUNT);
     db.close();
     const missing = spawnSync(process.execPath, [CLI, 'backup', '--data', join(data, 'nowhere'), '--to', join(data, 'x.sqlite')], { encoding: 'utf8', timeout: 20_000 });
     expect(missing.status).toBe(1);

@@ -107,12 +107,20 @@ describe('interpret on noisy horizontal-layer surveys (ray-geometry picks)', () 
     });
   }
 
-  it('lists refractors by the intercept-time and by the crossover-distance method, one point per shot side, near the stated depth', () => {
+  it('lists refractors by the intercept-time and crossover-distance methods (one point per shot side) and by plus-minus and GRM (per receiver), near the stated depth', () => {
     const result = run(syntheticSurvey(TWO_LAYER));
     const methods = result.refractors.map((refractor) => refractor.method.split(' ')[0]);
-    expect(methods).toEqual(['intercept-time', 'crossover-distance']);
+    expect(methods).toEqual(['intercept-time', 'crossover-distance', 'plus-minus', 'generalized']);
     const sideCount = result.shots.reduce((count, shot) => count + shot.sides.length, 0);
-    for (const refractor of result.refractors) {
+    for (const refractor of result.refractors.slice(2)) {
+      // Delay-time methods (Hagedoorn 1959; Palmer 1980) on the same ray-geometry picks: the stated thickness under every receiver.
+      expect(refractor.points.length).toBeGreaterThan(10);
+      for (const point of refractor.points) {
+        expect(point.shot).toBeNull();
+        expectRelative(point.depth, TWO_LAYER.thicknesses[0]!, DEPTH_TOLERANCE, `${refractor.method}: receiver at ${point.x} m (stated model)`);
+      }
+    }
+    for (const refractor of result.refractors.slice(0, 2)) {
       expect(refractor.interface).toBe(1);
       expect(refractor.points).toHaveLength(sideCount);
       for (const point of refractor.points) {

@@ -1,14 +1,16 @@
 /**
  * Writes the invented demo surveys in sample-surveys/ (run: npm run build && node
- * dist/tests/tools/make-sample-surveys.js). First arrivals come from the test-side ray-geometry
- * oracle (explicit ray paths through plane horizontal layers), plus seeded Gaussian pick noise,
- * rounded as a seismograph display would be. Demo data only: no test treats these as truth
- * beyond the golden-file regression guard.
+ * dist/tests/tools/make-sample-surveys.js). First arrivals come from the test-side oracles — the
+ * ray-geometry oracle (explicit ray paths through plane horizontal layers) and, for the undulating
+ * bedrock, the fine-grid shortest-path oracle (tests/oracles/grid-first-arrivals.ts) — plus seeded
+ * Gaussian pick noise, rounded as a seismograph display would be. Demo data only: no test treats
+ * these as truth beyond the golden-file regression guard.
  */
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { firstArrivalByRays } from '../oracles/ray-geometry.js';
 import { seededNormal } from '../../lib/random.js';
+import { gridFirstArrivals } from '../oracles/grid-first-arrivals.js';
 
 interface Scenario {
   readonly file: string;
@@ -89,5 +91,39 @@ function writeScenario(scenario: Scenario, folder: string): void {
   writeFileSync(join(folder, scenario.file), `${lines.join('\n')}\n`);
 }
 
+/**
+ * Ashcombe Hollow: a reversed line of three overlapping spreads over bedrock whose depth undulates
+ * (10 ± 3 m, wavelength 120 m), each spread shot at both ends and 30 m off each end.
+ */
+function writeUndulatingBedrock(folder: string): void {
+  const bedrock = (x: number) => 10 + 3 * Math.sin((2 * Math.PI * (x - 20)) / 120);
+  const shots = [0, 90, 180].flatMap((start, k) => {
+    const receivers = range(48, start, 2.5);
+    const first = receivers[0]!;
+    const last = receivers[receivers.length - 1]!;
+    const spread = `S${k + 1}`;
+    return [
+      { id: `${spread}-OFF-W`, x: first - 30, receivers },
+      { id: `${spread}-W`, x: first, receivers },
+      { id: `${spread}-E`, x: last, receivers },
+      { id: `${spread}-OFF-E`, x: last + 30, receivers },
+    ];
+  });
+  const arrivals = gridFirstArrivals({ section: { velocities: [650, 3200], interfaces: [bedrock] }, shots, depthExtent: 18 });
+  const noise = seededNormal(20263);
+  const lines = [
+    '# Ashcombe Hollow bypass cutting, line B (invented demo survey)',
+    '# Weathered mudstone over sandstone whose top undulates; three overlapping spreads of 48 geophones at 2.5 m,',
+    '# each shot at both ends and 30 m off each end (12 shots).',
+    'shot,source_x_m,receiver_x_m,time_ms,sigma_ms',
+  ];
+  for (const arrival of arrivals) {
+    const picked = Math.max(0, arrival.time * 1000 + 0.3 * noise());
+    lines.push([arrival.shot, String(arrival.sourceX), String(arrival.receiverX), picked.toFixed(2), '0.35'].join(','));
+  }
+  writeFileSync(join(folder, 'ashcombe-hollow-undulating-bedrock.csv'), `${lines.join('\n')}\n`);
+}
+
 const folder = process.argv[2] ?? 'sample-surveys';
 for (const scenario of SCENARIOS) writeScenario(scenario, folder);
+writeUndulatingBedrock(folder);

@@ -1,0 +1,169 @@
+/**
+ * The picks of one shot side on one refractor's head-wave branch, as the reversed-profile methods
+ * take them: receiver positions along the line, times corrected to the reference surface, sigmas,
+ * and a straight line through them for the reciprocal time.
+ *
+ * Corrections (METHODS §8; Telford1990 ch. 4; Sheriff1995 ch. 4), with V_1 the near-surface velocity
+ * and V_n the refractor's velocity (both the survey's):
+ * - a buried shot (depth d) is brought up to its ground surface: its head-wave times are d·q_{1,n}
+ *   early, so t_uh·cos θ (`upholeCorrection`, V_1 = d/t_uh) is added when the uphole time is known,
+ *   else d·cos θ/V_1 from the survey's V_1 (`headWaveDatumCorrection` with the end raised by d);
+ * - with a datum elevation E_d, every end is lowered from its elevation to the datum
+ *   (`headWaveDatumCorrection`): the shot from its ground elevation minus its depth, the receiver
+ *   from its ground elevation. Delays, depths and the reciprocal time then refer to the datum.
+ * Without a datum, times refer to the ground at each receiver, which the delay-time methods handle
+ * as they are (the delay at a receiver is the delay below its own ground).
+ *
+ * The sigma of a pick is its own when the table gives one, else the scatter of the branch's picks
+ * from their second differences along the line, σ̂² = mean(Δ²t)²/6 (white noise of variance σ² gives
+ * Δ²t of variance 6σ²; a smooth refractor's curvature barely enters, unlike the residuals about one
+ * straight line), floored at the picks' rounding (resolution/√12).
+ */
+import type { Pick, PickSet } from '../picks/types.js';
+import type { SideSegmentation } from '../branches/types.js';
+import type { BranchParameters } from '../depth/types.js';
+import { headWaveDatumCorrection, upholeCorrection } from '../depth/near-surface-corrections.js';
+import { linearLeastSquares } from '../stats/linear-least-squares.js';
+import { maximum } from '../stats/extent.js';
+
+export interface RefractorArrivalsContext {
+  readonly pickSet: PickSet;
+  /** V_1 and V_n of the survey, m/s. */
+  readonly nearSurfaceVelocity: number;
+  readonly refractorVelocity: number;
+  /** Datum elevation E_d, m, or null to refer times to the ground. */
+  readonly datumElevation: number | null;
+  readonly timeResolution: number;
+}
+
+export interface SideRefractorArrivals {
+  readonly shot: string;
+  readonly side: 'forward' | 'reverse';
+  readonly sourceX: number;
+  readonly refractor: number;
+  /** Ascending receiver positions, m, and the corrected times, s, and sigmas, s, aligned with them. */
+  readonly receiverX: readonly number[];
+  readonly times: readonly number[];
+  readonly sigmas: readonly number[];
+  /** Ground elevation at each receiver, m, when given. */
+  readonly receiverElevations: readonly (number | null)[];
+  /** Index of each pick in the pick set, aligned with `receiverX`. */
+  readonly pickIndices: readonly number[];
+  /** The corrected times' line against offset from the shot (slowness, intercept, covariance). */
+  readonly line: BranchParameters;
+  readonly lineResidualSD: number;
+  /** Correction added at the shot end, s (0 for a surface shot without a datum). */
+  readonly sourceCorrection: number;
+  /** Largest correction removed at a receiver end, s (0 without a datum). */
+  readonly largestReceiverCorrection: number;
+  /** Median receiver spacing along the branch, m. */
+  readonly receiverSpacing: number;
+}
+
+function median(values: readonly number[]): number {
+  const sorted = [...values].sort((left, right) => left - right);
+  const middle = Math.floor(sorted.length / 2);
+  return sorted.length % 2 === 1 ? (sorted[middle] as number) : ((sorted[middle - 1] as number) + (sorted[middle] as number)) / 2;
+}
+
+/** √(mean (Δ²t)² / 6) over consecutive picks (ordered by offset); 0 for fewer than 3. */
+export function secondDifferenceScatter(times: readonly number[]): number {
+  if (times.length < 3) return 0;
+  let sum = 0;
+  for (let k = 1; k < times.length - 1; k += 1) sum += ((times[k - 1] as number) - 2 * (times[k] as number) + (times[k + 1] as number)) ** 2;
+  return Math.sqrt(sum / (times.length - 2) / 6);
+}
+
+/** The time added at the shot end (positive for a buried shot brought up), or removed when lowered to the datum (negative). */
+function sourceEndCorrection(pick: Pick, context: RefractorArrivalsContext): number {
+  const depth = pick.sourceDepth ?? 0;
+  const velocities = { nearSurfaceVelocity: context.nearSurfaceVelocity, refractorVelocity: context.refractorVelocity };
+  let added = 0;
+  if (depth > 0) {
+    const uphole =
+      pick.uphole !== null && pick.uphole > 0
+        ? upholeCorrection({ upholeTime: pick.uphole, shotDepth: depth, refractorVelocity: context.refractorVelocity })
+        : headWaveDatumCorrection({ lowering: -depth, ...velocities });
+    if (uphole.ok) added += pick.uphole !== null && pick.uphole > 0 ? uphole.time : -uphole.time;
+  }
+  if (context.datumElevation !== null && pick.sourceElevation !== null) {
+    const lowered = headWaveDatumCorrection({ lowering: pick.sourceElevation - context.datumElevation, ...velocities });
+    if (lowered.ok) added -= lowered.time;
+  }
+  return added;
+}
+
+function receiverEndCorrection(pick: Pick, context: RefractorArrivalsContext): number {
+  if (context.datumElevation === null || pick.receiverElevation === null) return 0;
+  const lowered = headWaveDatumCorrection({
+    lowering: pick.receiverElevation - context.datumElevation,
+    nearSurfaceVelocity: context.nearSurfaceVelocity,
+    refractorVelocity: context.refractorVelocity,
+  });
+  return lowered.ok ? lowered.time : 0;
+}
+
+/** Branch n of the side as corrected arrivals, or null when the side has no such branch (or fewer than 3 picks on it). */
+export function refractorArrivals(segmentation: SideSegmentation, refractor: number, context: RefractorArrivalsContext): SideRefractorArrivals | null {
+  const branch = segmentation.branches.find((entry) => entry.index === refractor);
+  if (!branch || branch.members.length < 3) return null;
+  const { sidePicks } = segmentation;
+  const floor = context.timeResolution / Math.sqrt(12);
+  const scatter = Math.max(secondDifferenceScatter(branch.members.map((position) => sidePicks.times[position] as number)), floor);
+  const rows = branch.members.map((position) => {
+    const pickIndex = sidePicks.pickIndices[position] as number;
+    const pick = context.pickSet.picks[pickIndex] as Pick;
+    const receiverCorrection = receiverEndCorrection(pick, context);
+    return {
+      x: pick.receiverX,
+      offset: sidePicks.offsets[position] as number,
+      time: pick.time + sourceEndCorrection(pick, context) - receiverCorrection,
+      sigma: pick.sigma ?? scatter,
+      elevation: pick.receiverElevation,
+      pickIndex,
+      receiverCorrection,
+    };
+  });
+  rows.sort((left, right) => left.x - right.x);
+  const meanOffset = rows.reduce((sum, row) => sum + row.offset, 0) / rows.length;
+  const fit = linearLeastSquares(
+    rows.map((row) => [1, row.offset - meanOffset]),
+    rows.map((row) => row.time),
+    rows.map((row) => 1 / row.sigma ** 2),
+  );
+  if (!fit) return null;
+  const slowness = fit.coefficients[1] as number;
+  const centred = fit.coefficients[0] as number;
+  // Scale the covariance by the reduced χ² when the picks scatter more than their sigmas say.
+  const scale = Math.max(1, fit.weightedResidualSumOfSquares / Math.max(1, rows.length - 2));
+  const cov = fit.unscaledCovariance.map((row) => row.map((value) => value * scale));
+  const varSlope = (cov[1] as number[])[1] as number;
+  const varCentre = (cov[0] as number[])[0] as number;
+  const covCentreSlope = (cov[0] as number[])[1] as number;
+  // Intercept at offset 0: τ = c − s·ō.
+  const line: BranchParameters = {
+    slowness,
+    intercept: centred - slowness * meanOffset,
+    slownessVariance: varSlope,
+    interceptVariance: varCentre - 2 * meanOffset * covCentreSlope + meanOffset ** 2 * varSlope,
+    covariance: covCentreSlope - meanOffset * varSlope,
+  };
+  const residuals = rows.map((row) => row.time - line.intercept - slowness * row.offset);
+  const spacings = rows.slice(1).map((row, k) => row.x - (rows[k] as { x: number }).x);
+  return {
+    shot: sidePicks.shot,
+    side: sidePicks.side,
+    sourceX: sidePicks.sourceX,
+    refractor,
+    receiverX: rows.map((row) => row.x),
+    times: rows.map((row) => row.time),
+    sigmas: rows.map((row) => row.sigma),
+    receiverElevations: rows.map((row) => row.elevation),
+    pickIndices: rows.map((row) => row.pickIndex),
+    line,
+    lineResidualSD: Math.sqrt(residuals.reduce((sum, value) => sum + value * value, 0) / Math.max(1, rows.length - 2)),
+    sourceCorrection: rows.length > 0 ? sourceEndCorrection(context.pickSet.picks[rows[0]!.pickIndex] as Pick, context) : 0,
+    largestReceiverCorrection: maximum(rows.map((row) => Math.abs(row.receiverCorrection)), 0),
+    receiverSpacing: spacings.length > 0 ? median(spacings) : 0,
+  };
+}
