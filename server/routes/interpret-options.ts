@@ -18,7 +18,30 @@ function fromText(value: unknown): unknown {
   return typeof value === 'string' && /^-?[0-9]+$/.test(value.trim()) ? Number(value) : value;
 }
 
-function optionFields(number: (schema: z.ZodNumber) => z.ZodType<number>) {
+/** Most reversed pairs one request may name. */
+export const MAX_REVERSED_PAIRS = 200;
+
+const PairChoice = z.strictObject({ forwardShot: z.string().min(1).max(200), reverseShot: z.string().min(1).max(200) });
+
+/** Query text for pairs: "A:B,C:D" (forward shot, colon, reverse shot; pairs joined by commas). */
+function pairsFromText(value: unknown): unknown {
+  if (typeof value !== 'string') return value;
+  return value.split(',').map((text) => {
+    const [forwardShot, reverseShot, ...rest] = text.split(':');
+    return rest.length > 0 ? text : { forwardShot: forwardShot?.trim(), reverseShot: reverseShot?.trim() };
+  });
+}
+
+function decimalFromText(value: unknown): unknown {
+  return typeof value === 'string' && /^-?[0-9]+(\.[0-9]+)?$/.test(value.trim()) ? Number(value) : value;
+}
+
+function booleanFromText(value: unknown): unknown {
+  return value === 'true' ? true : value === 'false' ? false : value;
+}
+
+function optionFields(number: (schema: z.ZodNumber) => z.ZodType<number>, text: boolean) {
+  const fromQuery = <T extends z.ZodType>(reader: (value: unknown) => unknown, schema: T) => (text ? z.preprocess(reader, schema) : schema);
   return {
     /** Line-fit method for every branch. */
     fitMethod: z.enum(['least-squares', 'theil-sen', 'huber']).optional(),
@@ -32,10 +55,16 @@ function optionFields(number: (schema: z.ZodNumber) => z.ZodType<number>) {
     maxBranches: number(z.number().int().min(1).max(MAX_BRANCHES)).optional(),
     /** Fewest picks per automatic branch (a line needs two, a scatter estimate three). */
     minPicksPerBranch: number(z.number().int().min(2).max(1000)).optional(),
+    /** Reversed pairs for the depths under the receivers (forward shot, reverse shot); null or absent: automatic. */
+    reversedPairs: fromQuery(pairsFromText, z.array(PairChoice).max(MAX_REVERSED_PAIRS).nullable()).optional(),
+    /** Datum elevation, m, for the depths under the receivers; null or absent: the ground. */
+    datumElevation: fromQuery(decimalFromText, z.number().min(-12_000).max(10_000).nullable()).optional(),
+    /** Run the grid forward check of the depth section (default true). */
+    forwardCheck: fromQuery(booleanFromText, z.boolean()).optional(),
   };
 }
 
-export const InterpretOptionsBody = z.strictObject(optionFields((schema) => schema));
-export const InterpretOptionsQuery = z.strictObject(optionFields((schema) => z.preprocess(fromText, schema)));
+export const InterpretOptionsBody = z.strictObject(optionFields((schema) => schema, false));
+export const InterpretOptionsQuery = z.strictObject(optionFields((schema) => z.preprocess(fromText, schema), true));
 
 export type InterpretOptionsInput = z.infer<typeof InterpretOptionsBody>;

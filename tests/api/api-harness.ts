@@ -40,7 +40,7 @@ export function openHarness(config: Partial<ServerConfigInput> = {}, deps: Omit<
 const SAMPLE_FOLDER = fileURLToPath(new URL('../../sample-surveys/', import.meta.url));
 
 /** An invented demo survey from sample-surveys/ (see its README), as bytes. */
-export function sampleSurvey(name: 'fenwick-meadow-water-table' | 'millbrook-quarry-bedrock'): Buffer {
+export function sampleSurvey(name: 'fenwick-meadow-water-table' | 'millbrook-quarry-bedrock' | 'ashcombe-hollow-undulating-bedrock'): Buffer {
   return readFileSync(join(SAMPLE_FOLDER, `${name}.csv`));
 }
 
