@@ -346,24 +346,26 @@ export function reversedProfile(
   }
   warnings.push(...delayNoteWarnings(analyses));
 
-  // Dipping planar layers per pair of shots that shows refractors 2…k.
+  // Dipping planar layers per pair of shots that forms a reversed pair: refractors 2…k while both
+  // shots show the refractor's branch (the formulas need the two branch lines, not common receivers).
   const dipping: ShotPairDipping[] = [];
-  const shotPairs = new Map<string, ReversedPair[]>();
-  for (const pair of pairs) {
-    const key = `${pair.forward.shot}\u0000${pair.reverse.shot}`;
-    shotPairs.set(key, [...(shotPairs.get(key) ?? []), pair]);
-  }
-  for (const stack of shotPairs.values()) {
-    const ordered: ReversedPair[] = [];
-    for (let refractor = 2; stack.some((pair) => pair.refractor === refractor); refractor += 1) ordered.push(stack.find((pair) => pair.refractor === refractor)!);
-    if (ordered.length === 0) continue;
-    const first = ordered[0]!;
-    const direct = { slowness: 1 / velocities[0]!.value, variance: (velocities[0]!.standardError / velocities[0]!.value ** 2) ** 2 };
+  const shotPairs = new Map<string, ReversedPair>();
+  for (const pair of pairs) shotPairs.set(`${pair.forward.shot}\u0000${pair.reverse.shot}`, pair);
+  const direct = { slowness: 1 / velocities[0]!.value, variance: (velocities[0]!.standardError / velocities[0]!.value ** 2) ** 2 };
+  for (const pair of shotPairs.values()) {
+    const branchPairs = [];
+    for (let refractor = 2; ; refractor += 1) {
+      const forward = arrivals.find((entry) => entry.side === 'forward' && entry.shot === pair.forward.shot && entry.refractor === refractor);
+      const reverse = arrivals.find((entry) => entry.side === 'reverse' && entry.shot === pair.reverse.shot && entry.refractor === refractor);
+      if (!forward || !reverse) break;
+      branchPairs.push({ forward: forward.line, reverse: reverse.line });
+    }
+    if (branchPairs.length === 0) continue;
     dipping.push({
-      forwardShot: first.forward.shot,
-      reverseShot: first.reverse.shot,
-      spreadLength: first.spreadLength,
-      result: dippingLayers(direct, ordered.map((pair) => ({ forward: pair.forward.line, reverse: pair.reverse.line })), first.spreadLength),
+      forwardShot: pair.forward.shot,
+      reverseShot: pair.reverse.shot,
+      spreadLength: pair.spreadLength,
+      result: dippingLayers(direct, branchPairs, pair.spreadLength),
     });
   }
 

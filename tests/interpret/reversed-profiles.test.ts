@@ -114,6 +114,44 @@ describe('reversed profiles: planar dipping refractor from explicit ray geometry
   });
 });
 
+describe('reversed profiles: two plane dipping interfaces (METHODS 5.3 model) from explicit ray geometry', () => {
+  // METHODS 5.3: V 500/1500/4000 m/s, L = 150 m; interface 1 at 5 m under A dipping 3°, interface 2 at 15 m under A dipping 8°.
+  const model: DippingModel = {
+    velocities: [500, 1500, 4000],
+    interfaces: [
+      { depthAtOrigin: 5, dip: (3 * Math.PI) / 180 },
+      { depthAtOrigin: 15, dip: (8 * Math.PI) / 180 },
+    ],
+  };
+  const rows: Row[] = (['A', 'B'] as const).flatMap((shot) => {
+    const sourceX = shot === 'A' ? 0 : 150;
+    return range(75, 2, 2)
+      .filter((receiverX) => receiverX !== sourceX)
+      .map((receiverX) => {
+        const times = [Math.abs(receiverX - sourceX) / 500, dippingHeadWaveTime(model, 1, sourceX, receiverX), dippingHeadWaveTime(model, 2, sourceX, receiverX)];
+        return { shot, sourceX, receiverX, time: Math.min(...times.map((time) => time ?? Number.POSITIVE_INFINITY)) };
+      });
+  });
+
+  it('strips both interfaces from the top: velocities within 1 %, dips within 0.5°, depths under both shots within 2 %', () => {
+    const result = run(rows);
+    const layers = result.dippingLayers.find((entry) => entry.forwardShot === 'A' && entry.reverseShot === 'B')!;
+    expect(layers.interfaces).toHaveLength(2);
+    // Source: the stated model and METHODS 5.3's depths under B (12.86117 and 36.08113 m, computed by Fermat minimisation).
+    const expected = [
+      { velocity: 1500, dip: 3, underA: 5, underB: 12.86117 },
+      { velocity: 4000, dip: 8, underA: 15, underB: 36.08113 },
+    ];
+    layers.interfaces.forEach((layer, k) => {
+      const truth = expected[k]!;
+      expect(Math.abs(layer.trueVelocity - truth.velocity) / truth.velocity).toBeLessThan(0.01);
+      expect(Math.abs(layer.dipDegrees - truth.dip)).toBeLessThan(0.5);
+      expect(Math.abs(layer.depthUnderForwardShot - truth.underA) / truth.underA).toBeLessThan(0.02);
+      expect(Math.abs(layer.depthUnderReverseShot - truth.underB) / truth.underB).toBeLessThan(0.02);
+    });
+  });
+});
+
 // --- undulating refractor, several overlapping spreads
 const UNDULATING = (x: number) => 10 + 3 * Math.sin((2 * Math.PI * x) / 120);
 
