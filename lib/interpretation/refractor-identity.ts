@@ -192,7 +192,10 @@ function mergeBranches(segmentation: SideSegmentation, n: number, fitMethod: Fit
       branches.push(refit.branch);
     } else if (branch.index > n + 1) branches.push({ ...branch, index: branch.index - 1 });
   }
-  return { ...segmentation, branches };
+  // A note on the split that was chosen no longer describes the branches (the survey-level
+  // `branches-one-refractor` note says what happened instead).
+  const notes = segmentation.notes.filter((note) => note.code !== 'segmentation-constraint-failed');
+  return { ...segmentation, branches, notes };
 }
 
 /** Merge branches that reversed minus times show to be one refractor (see the module comment). */

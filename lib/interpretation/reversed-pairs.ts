@@ -14,9 +14,12 @@
  * is one (within a quarter of the receiver spacing), else from a line through the `LOCAL_PICKS`
  * picks of the branch nearest that position, if it lies within two receiver spacings of the branch
  * (a short extrapolation: the branch is not straight over an undulating refractor). When both are
- * read they are averaged (inverse-variance weights) and checked with `reciprocalTimeCheck`: a misfit
- * larger than √(var t_AB + var t_BA) + the time resolution (√2·σ_pick + tolerance for equal
- * sigmas) is flagged. When only one is read the pair uses it unchecked.
+ * read they are averaged (inverse-variance weights) and checked with `reciprocalTimeCheck`
+ * (√2·σ_pick + tolerance, σ_pick² the mean of the two readings' variances), with a tolerance of one
+ * more √2·σ_pick plus the time resolution: a misfit beyond two standard errors of the difference,
+ * so that about one pair in twenty of good data is flagged rather than one in three (our choice;
+ * a 3 ms time-zero error on picks of 0.3 ms is still flagged several times over). When only one is
+ * read the pair uses it unchecked.
  */
 import type { Estimate } from '../depth/dipping-layer.js';
 import { reciprocalTimeCheck, type ReciprocalTimeCheck } from '../depth/dipping-layer.js';
@@ -114,7 +117,7 @@ function formPair(forward: SideRefractorArrivals, reverse: SideRefractorArrivals
     reciprocalTime = { value: (wAB * forwardAtReverseShot.value + wBA * reverseAtForwardShot.value) / (wAB + wBA), standardError: Math.sqrt(1 / (wAB + wBA)) };
     // √2·σ_pick with σ_pick² the mean variance is √(var_AB + var_BA).
     const pickSE = Math.sqrt((forwardAtReverseShot.variance + reverseAtForwardShot.variance) / 2);
-    check = reciprocalTimeCheck(forwardAtReverseShot.value, reverseAtForwardShot.value, pickSE, timeResolution);
+    check = reciprocalTimeCheck(forwardAtReverseShot.value, reverseAtForwardShot.value, pickSE, Math.SQRT2 * pickSE + timeResolution);
   } else {
     const only = (forwardAtReverseShot ?? reverseAtForwardShot)!;
     reciprocalTime = { value: only.value, standardError: Math.sqrt(only.variance) };
