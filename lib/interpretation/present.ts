@@ -243,7 +243,7 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
     checked === null
       ? null
       : {
-          model: `first arrivals on a grid through the ${DELAY_METHOD_WORDS[checked.method]} depth section (velocities: the survey's overburden and the section's refractor velocity; flat top, relief not modelled; interfaces held level beyond the reversed coverage)`,
+          model: `first arrivals on a grid through the ${DELAY_METHOD_WORDS[checked.method]} depth section (velocities: the survey's overburden and the section's refractor velocity; the section hung by its depths below the ground from a flat top, so relief enters through the depths; interfaces held level beyond the reversed coverage)`,
           method: 'shortest-path first arrivals on a grid',
           references: [...FORWARD_CHECK_REFERENCES],
           grid: { spacing: distance(checked.result.grid.spacing), radius: checked.result.grid.radius, columns: checked.result.grid.columns, rows: checked.result.grid.rows },

@@ -15,9 +15,12 @@
  * as they are (the delay at a receiver is the delay below its own ground).
  *
  * The sigma of a pick is its own when the table gives one, else the scatter of the branch's picks
- * from their second differences along the line, σ̂² = mean(Δ²t)²/6 (white noise of variance σ² gives
- * Δ²t of variance 6σ²; a smooth refractor's curvature barely enters, unlike the residuals about one
- * straight line), floored at the picks' rounding (resolution/√12).
+ * about the chords of their neighbours (`secondDifferenceScatter`: a smooth refractor's curvature
+ * barely enters, unlike the residuals about one straight line; a missing receiver does not either),
+ * floored at the picks' rounding (resolution/√12).
+ *
+ * A correction that cannot be made (an uphole velocity not below the refractor's) is left out and
+ * named in `correctionRefusals`.
  */
 import type { Pick, PickSet } from '../picks/types.js';
 import type { SideSegmentation } from '../branches/types.js';
@@ -58,6 +61,8 @@ export interface SideRefractorArrivals {
   readonly largestReceiverCorrection: number;
   /** Median receiver spacing along the branch, m. */
   readonly receiverSpacing: number;
+  /** Corrections that could not be made, in words (empty when every one was). */
+  readonly correctionRefusals: readonly string[];
 }
 
 function median(values: readonly number[]): number {
@@ -66,16 +71,31 @@ function median(values: readonly number[]): number {
   return sorted.length % 2 === 1 ? (sorted[middle] as number) : ((sorted[middle - 1] as number) + (sorted[middle] as number)) / 2;
 }
 
-/** √(mean (Δ²t)² / 6) over consecutive picks (ordered by offset); 0 for fewer than 3. */
-export function secondDifferenceScatter(times: readonly number[]): number {
-  if (times.length < 3) return 0;
+/**
+ * The scatter σ̂ of picks about the chords of their neighbours (positions ascending, times aligned):
+ * e_k = t_k − (a·t_{k−1} + b·t_{k+1}) with a = (x_{k+1} − x_k)/(x_{k+1} − x_{k−1}), b = 1 − a, the
+ * chord's value at x_k; for independent picks of variance σ², Var e_k = σ²(1 + a² + b²), so
+ * σ̂² = mean(e_k²/(1 + a² + b²)). For equal spacing e_k = −Δ²t/2 and this is mean((Δ²t)²)/6. A
+ * straight branch gives 0 whatever the gaps; 0 for fewer than 3 picks (or coincident positions).
+ */
+export function secondDifferenceScatter(positions: readonly number[], times: readonly number[]): number {
+  if (positions.length !== times.length) throw new RangeError(`secondDifferenceScatter: ${positions.length} positions for ${times.length} times`);
   let sum = 0;
-  for (let k = 1; k < times.length - 1; k += 1) sum += ((times[k - 1] as number) - 2 * (times[k] as number) + (times[k + 1] as number)) ** 2;
-  return Math.sqrt(sum / (times.length - 2) / 6);
+  let count = 0;
+  for (let k = 1; k < times.length - 1; k += 1) {
+    const span = (positions[k + 1] as number) - (positions[k - 1] as number);
+    if (!(span > 0)) continue;
+    const a = ((positions[k + 1] as number) - (positions[k] as number)) / span;
+    const b = 1 - a;
+    const residual = (times[k] as number) - a * (times[k - 1] as number) - b * (times[k + 1] as number);
+    sum += residual ** 2 / (1 + a * a + b * b);
+    count += 1;
+  }
+  return count === 0 ? 0 : Math.sqrt(sum / count);
 }
 
 /** The time added at the shot end (positive for a buried shot brought up), or removed when lowered to the datum (negative). */
-function sourceEndCorrection(pick: Pick, context: RefractorArrivalsContext): number {
+function sourceEndCorrection(pick: Pick, context: RefractorArrivalsContext, refusals?: Set<string>): number {
   const depth = pick.sourceDepth ?? 0;
   const velocities = { nearSurfaceVelocity: context.nearSurfaceVelocity, refractorVelocity: context.refractorVelocity };
   let added = 0;
@@ -85,10 +105,12 @@ function sourceEndCorrection(pick: Pick, context: RefractorArrivalsContext): num
         ? upholeCorrection({ upholeTime: pick.uphole, shotDepth: depth, refractorVelocity: context.refractorVelocity })
         : headWaveDatumCorrection({ lowering: -depth, ...velocities });
     if (uphole.ok) added += pick.uphole !== null && pick.uphole > 0 ? uphole.time : -uphole.time;
+    else refusals?.add(`shot ${pick.shot} was not brought up to the ground: ${uphole.message}`);
   }
   if (context.datumElevation !== null && pick.sourceElevation !== null) {
     const lowered = headWaveDatumCorrection({ lowering: pick.sourceElevation - context.datumElevation, ...velocities });
     if (lowered.ok) added -= lowered.time;
+    else refusals?.add(`shot ${pick.shot} was not lowered to the datum: ${lowered.message}`);
   }
   return added;
 }
@@ -109,7 +131,14 @@ export function refractorArrivals(segmentation: SideSegmentation, refractor: num
   if (!branch || branch.members.length < 3) return null;
   const { sidePicks } = segmentation;
   const floor = context.timeResolution / Math.sqrt(12);
-  const scatter = Math.max(secondDifferenceScatter(branch.members.map((position) => sidePicks.times[position] as number)), floor);
+  const scatter = Math.max(
+    secondDifferenceScatter(
+      branch.members.map((position) => sidePicks.offsets[position] as number),
+      branch.members.map((position) => sidePicks.times[position] as number),
+    ),
+    floor,
+  );
+  const refusals = new Set<string>();
   const rows = branch.members.map((position) => {
     const pickIndex = sidePicks.pickIndices[position] as number;
     const pick = context.pickSet.picks[pickIndex] as Pick;
@@ -117,7 +146,7 @@ export function refractorArrivals(segmentation: SideSegmentation, refractor: num
     return {
       x: pick.receiverX,
       offset: sidePicks.offsets[position] as number,
-      time: pick.time + sourceEndCorrection(pick, context) - receiverCorrection,
+      time: pick.time + sourceEndCorrection(pick, context, refusals) - receiverCorrection,
       sigma: pick.sigma ?? scatter,
       elevation: pick.receiverElevation,
       pickIndex,
@@ -165,5 +194,6 @@ export function refractorArrivals(segmentation: SideSegmentation, refractor: num
     sourceCorrection: rows.length > 0 ? sourceEndCorrection(context.pickSet.picks[rows[0]!.pickIndex] as Pick, context) : 0,
     largestReceiverCorrection: maximum(rows.map((row) => Math.abs(row.receiverCorrection)), 0),
     receiverSpacing: spacings.length > 0 ? median(spacings) : 0,
+    correctionRefusals: [...refusals],
   };
 }

@@ -38,7 +38,7 @@ export const MATERIAL_BEND = 0.1;
 /** Largest XY separation tried, in receivers. */
 export const MAX_SEPARATION_RECEIVERS = 8;
 /** Reverse shots tested per forward side, nearest first. */
-export const PARTNERS_PER_SIDE = 3;
+export const EVIDENCE_PARTNERS = 3;
 
 /** What the minus times of one reversed pair say about branches n and n + 1. */
 export interface MinusTimeEvidence {
@@ -177,7 +177,7 @@ export function minusTimeEvidence(
   };
 }
 
-/** Branch n + 1 joined to branch n and deeper branches moved up one, refitted; null if the merged branch cannot be fitted. */
+/** Branch n + 1 joined to branch n and deeper branches moved up one, refitted; the side unchanged if the merged branch cannot be fitted. */
 function mergeBranches(segmentation: SideSegmentation, n: number, fitMethod: FitMethod): SideSegmentation {
   const lower = segmentation.branches.find((branch) => branch.index === n);
   const upper = segmentation.branches.find((branch) => branch.index === n + 1);
@@ -222,7 +222,7 @@ export function identifyRefractors(
         .sort((left, right) => left.sidePicks.sourceX - right.sidePicks.sourceX);
       let found = 0;
       for (const reverse of partners) {
-        if (found >= PARTNERS_PER_SIDE) break;
+        if (found >= EVIDENCE_PARTNERS) break;
         const entry = minusTimeEvidence(forward, reverse, n, options.timeResolution);
         if (!entry) continue;
         evidence.push(entry);

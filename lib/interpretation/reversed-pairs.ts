@@ -6,7 +6,8 @@
  * refractor n (branches are numbered by the survey's layers: `branch-identity.ts` for off-end
  * shots, `refractor-identity.ts` for splits that reversed data show to be one refractor), with at
  * least `MIN_COMMON_RECEIVERS` receivers between the shots on both branches and a reciprocal time.
- * Automatic pairing takes, for each side, its `PARTNERS_PER_SIDE` nearest partners; the user may name the pairs instead (`PairChoice`),
+ * Automatic pairing takes, for each side, its `PARTNERS_PER_SIDE` nearest partners that form a
+ * pair (forward sides looking ahead, reverse sides looking back, the union kept); the user may name the pairs instead (`PairChoice`),
  * and a named pair that cannot be formed is refused with the reason.
  *
  * Reciprocal time (common practice; Telford1990 ch. 4; Palmer1980): t_AB, shot A's time at B, must
@@ -92,10 +93,18 @@ export function timeAtPosition(arrivals: SideRefractorArrivals, x: number): Reci
   return { value: fit.coefficients[0] as number, variance: (fit.unscaledCovariance[0] as number[])[0] as number, from: 'nearby picks' };
 }
 
+/** Forward receivers between the shots with a reverse receiver within a quarter spacing (both lists ascending: one merge pass). */
 function commonReceivers(forward: SideRefractorArrivals, reverse: SideRefractorArrivals): number[] {
   const tolerance = Math.max(1e-6, Math.min(forward.receiverSpacing, reverse.receiverSpacing) / 4);
-  const between = (x: number) => x > forward.sourceX && x < reverse.sourceX;
-  return forward.receiverX.filter((x) => between(x) && reverse.receiverX.some((other) => Math.abs(other - x) <= tolerance));
+  const common: number[] = [];
+  let cursor = 0;
+  for (const x of forward.receiverX) {
+    if (!(x > forward.sourceX && x < reverse.sourceX)) continue;
+    while (cursor < reverse.receiverX.length && (reverse.receiverX[cursor] as number) < x - tolerance) cursor += 1;
+    const other = reverse.receiverX[cursor];
+    if (other !== undefined && Math.abs(other - x) <= tolerance) common.push(x);
+  }
+  return common;
 }
 
 function formPair(forward: SideRefractorArrivals, reverse: SideRefractorArrivals, chosenBy: ReversedPair['chosenBy'], timeResolution: number): ReversedPair | string {
@@ -151,32 +160,40 @@ export function reversedPairs(
   const forwards = arrivals.filter((entry) => entry.side === 'forward');
   const reverses = arrivals.filter((entry) => entry.side === 'reverse');
   if (choices === null) {
-    // Each side pairs with its nearest partners only: the section takes the least-span pair at each
-    // receiver, and a long line of many shots would otherwise form a pair of every two of them.
-    const formed: ReversedPair[] = [];
-    for (const forward of forwards) {
-      const partners = reverses
-        .filter((reverse) => reverse.refractor === forward.refractor && forward.sourceX < reverse.sourceX)
-        .sort((left, right) => left.sourceX - right.sourceX);
-      let count = 0;
-      for (const reverse of partners) {
-        if (count >= PARTNERS_PER_SIDE) break;
+    // Each side pairs with its nearest partners only — each forward side with the nearest reverse
+    // sides beyond it that form a pair, each reverse side with the nearest forward sides before it —
+    // and the union is kept: the section takes the least-span pair at each receiver, and a long line
+    // of many shots would otherwise form a pair of every two of them.
+    const formed = new Map<string, ReversedPair | null>();
+    const attempt = (forward: SideRefractorArrivals, reverse: SideRefractorArrivals): ReversedPair | null => {
+      const key = `${forward.shot}\u0000${reverse.shot}\u0000${forward.refractor}`;
+      if (!formed.has(key)) {
         const pair = formPair(forward, reverse, 'automatic', timeResolution);
-        if (typeof pair === 'string') continue;
-        formed.push(pair);
+        formed.set(key, typeof pair === 'string' ? null : pair);
+      }
+      return formed.get(key) ?? null;
+    };
+    const kept = new Set<ReversedPair>();
+    // The first PARTNERS_PER_SIDE partners, in order of nearness, that form a pair.
+    const keepNearest = (partners: readonly SideRefractorArrivals[], pairWith: (partner: SideRefractorArrivals) => ReversedPair | null) => {
+      let count = 0;
+      for (const partner of partners) {
+        if (count >= PARTNERS_PER_SIDE) break;
+        const pair = pairWith(partner);
+        if (!pair) continue;
+        kept.add(pair);
         count += 1;
       }
+    };
+    for (const forward of forwards) {
+      const partners = reverses.filter((reverse) => reverse.refractor === forward.refractor && forward.sourceX < reverse.sourceX).sort((left, right) => left.sourceX - right.sourceX);
+      keepNearest(partners, (reverse) => attempt(forward, reverse));
     }
-    // …and each reverse side keeps its nearest forward partners among those.
-    const kept = new Set<ReversedPair>();
     for (const reverse of reverses) {
-      formed
-        .filter((pair) => pair.reverse === reverse)
-        .sort((left, right) => left.spreadLength - right.spreadLength)
-        .slice(0, PARTNERS_PER_SIDE)
-        .forEach((pair) => kept.add(pair));
+      const partners = forwards.filter((forward) => forward.refractor === reverse.refractor && forward.sourceX < reverse.sourceX).sort((left, right) => right.sourceX - left.sourceX);
+      keepNearest(partners, (forward) => attempt(forward, reverse));
     }
-    pairs.push(...formed.filter((pair) => kept.has(pair)));
+    pairs.push(...kept);
   } else {
     for (const choice of choices) {
       const candidates = forwards.filter((forward) => forward.shot === choice.forwardShot);

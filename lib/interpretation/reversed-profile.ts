@@ -284,6 +284,9 @@ export function reversedProfile(
       if (found) arrivals.push(found);
     }
   }
+  for (const refusal of new Set(arrivals.flatMap((entry) => entry.correctionRefusals))) {
+    warnings.push({ code: 'delay-time-note', level: 'warning', message: `${refusal}; its head-wave times are used as recorded, so the depths near it are off by about the correction` });
+  }
   const { pairs, refused } = reversedPairs(arrivals, settings.pairs, settings.timeResolution);
   for (const entry of refused) {
     warnings.push({
@@ -369,8 +372,42 @@ export function reversedProfile(
     });
   }
 
-  const checked = settings.forwardCheck === false ? null : runForwardCheck(pickSet, sections, combined.depths, velocities, warnings, settings.timeResolution);
+  const checked = settings.forwardCheck === false ? null : runForwardCheck(pickSet, sections, dipping, combined.depths, velocities, warnings, settings.timeResolution);
   return { pairs: analyses, refused, dipping, sections, forwardCheck: checked, referenceSurface: datum === null ? 'ground' : 'datum', warnings };
+}
+
+/**
+ * A section's points, carried beyond its ends to the nearest shots outside it by the plane
+ * dipping-layer depth under those shots (the planar model between the last receiver and the shot,
+ * rather than a level interface), so the forward check's rays from those shots go down through a
+ * refractor of the right depth.
+ */
+function carriedToShots(
+  points: readonly SectionPoint[],
+  dipping: readonly ShotPairDipping[],
+  iface: number,
+  pickSet: PickSet,
+): { x: number[]; depth: number[] } {
+  const x = points.map((point) => point.x);
+  const depth = points.map((point) => point.depthBelowGround as number);
+  const first = x[0]!;
+  const last = x[x.length - 1]!;
+  const sourceX = new Map<string, number>();
+  for (const pick of pickSet.picks) if (!sourceX.has(pick.shot)) sourceX.set(pick.shot, pick.sourceX);
+  const anchors: { x: number; depth: number }[] = [];
+  for (const entry of dipping) {
+    const layer = entry.result.interfaces.find((candidate) => candidate.interface === iface);
+    if (!layer) continue;
+    anchors.push({ x: sourceX.get(entry.forwardShot)!, depth: layer.verticalDepthA.value });
+    anchors.push({ x: sourceX.get(entry.reverseShot)!, depth: layer.verticalDepthB.value });
+  }
+  const usable = anchors.filter((anchor) => anchor.depth > 0 && Number.isFinite(anchor.depth));
+  const left = usable.filter((anchor) => anchor.x < first).sort((a, b) => b.x - a.x)[0];
+  const right = usable.filter((anchor) => anchor.x > last).sort((a, b) => a.x - b.x)[0];
+  return {
+    x: [...(left ? [left.x] : []), ...x, ...(right ? [right.x] : [])],
+    depth: [...(left ? [left.depth] : []), ...depth, ...(right ? [right.depth] : [])],
+  };
 }
 
 /** The delay-method notes a practitioner must see, one warning per pair and code. */
@@ -400,6 +437,7 @@ function delayNoteWarnings(analyses: readonly PairAnalysis[]): InterpretationWar
 function runForwardCheck(
   pickSet: PickSet,
   sections: readonly DelaySection[],
+  dipping: readonly ShotPairDipping[],
   combinedDepths: readonly number[],
   velocities: readonly Estimate[],
   warnings: InterpretationWarning[],
@@ -418,7 +456,7 @@ function runForwardCheck(
       const section = own.find((entry) => entry.refractor === refractor);
       const points = section?.points.filter((point) => point.depthBelowGround !== null) ?? [];
       const planeDepth = plane[refractor - 2];
-      if (points.length > 0) interfaces.push({ x: points.map((point) => point.x), depth: points.map((point) => point.depthBelowGround as number) });
+      if (points.length > 0) interfaces.push(carriedToShots(points, dipping, refractor - 1, pickSet));
       else if (planeDepth !== undefined && planeDepth > 0) interfaces.push({ x: [0], depth: [planeDepth] });
       else if (refractor > 2 && interfaces.length > 0) break; // deeper layers unresolved: the section stops here
       else {
@@ -439,6 +477,9 @@ function runForwardCheck(
     const picks = pickSet.picks.map((pick) => ({ shot: pick.shot, receiverX: pick.receiverX, time: pick.time, excluded: pick.excluded }));
     // Bounded work on long lines: about FORWARD_CHECK_NODE_BUDGET node visits over all shots.
     const maxNodes = Math.max(MIN_FORWARD_CHECK_NODES, Math.min(DEFAULT_FORWARD_CHECK_MAX_NODES, Math.floor(FORWARD_CHECK_NODE_BUDGET / Math.max(1, shots.length))));
+    // The grid's top is flat and the section hangs from it by its depths below the ground: relief
+    // enters through the depths (a plane-wave argument, as for the delays), which keeps head-wave
+    // times within 0.5 % for ground slopes up to 10 % (tests/model/forward-check.test.ts).
     const result = forwardCheck({ velocities: modelVelocities, interfaces }, shots, picks, { maxNodes });
     const sigmas = pickSet.picks.map((pick) => pick.sigma).filter((sigma): sigma is number => sigma !== null);
     const allowed = FORWARD_MISFIT_SIGMAS * Math.max(sigmas.length > 0 ? sigmas.reduce((sum, sigma) => sum + sigma, 0) / sigmas.length : 0, timeResolution, result.grid.spacing / modelVelocities[modelVelocities.length - 1]! );
@@ -456,3 +497,4 @@ function runForwardCheck(
   }
   return null;
 }
+
