@@ -112,8 +112,8 @@ export interface ReversedProfile {
 }
 
 /** Grid nodes solved over all shots of one forward check (about 1 s per 10^6 here), and the fewest per shot. */
-export const FORWARD_CHECK_NODE_BUDGET = 2_000_000;
-export const MIN_FORWARD_CHECK_NODES = 20_000;
+export const FORWARD_CHECK_NODE_BUDGET = 1_500_000;
+export const MIN_FORWARD_CHECK_NODES = 5_000;
 
 /** Fewest receivers under which a section's own refractor velocity is used in the forward check (common practice). */
 export const MIN_SECTION_POINTS_FOR_VELOCITY = 8;
