@@ -95,20 +95,129 @@ export interface ShotResult {
   readonly sides: readonly ShotSideResult[];
 }
 
+/*
+ * Fields marked optional below arrived with the reversed-profile methods: revisions stored before
+ * them lack these fields, and the client shows such a revision without the parts they feed.
+ */
+
 export interface RefractorPoint {
   readonly x: number;
+  /** Depth below the ground at x. */
   readonly depth: number;
   readonly depthSE: number;
+  /** Refractor elevation (ground or datum elevation minus depth), when the table gave elevations. */
   readonly elevation: number | null;
+  /** Depth below the datum, when a datum was given. */
+  readonly depthBelowDatum?: number | null;
   readonly shot: string | null;
   readonly side: Side | null;
+  /** The reversed pair ("A → B") a point under a receiver comes from; null for per-shot methods. */
+  readonly pair?: string | null;
+}
+
+/** Where a merged section passes from one reversed pair's result to another's. */
+export interface SeamResult {
+  readonly x: number;
+  readonly fromPair: string;
+  readonly toPair: string;
+  /** Mean depth of the new pair minus the old one's at the receivers both cover; null when none. */
+  readonly step: number | null;
+  readonly stepSE: number | null;
+  readonly commonReceivers: number;
 }
 
 export interface RefractorResult {
   readonly interface: number;
   readonly method: string;
   readonly references: readonly string[];
+  /** Refractor velocity of a delay-time method along the line; null for per-shot methods. */
+  readonly velocity?: number | null;
+  readonly velocitySE?: number | null;
   readonly points: readonly RefractorPoint[];
+  /** Empty for per-shot methods. */
+  readonly seams?: readonly SeamResult[];
+}
+
+/** A reversed pair: shot A's forward side with shot B's reverse side, on one refractor. */
+export interface ReversedPairResult {
+  /** "A → B". */
+  readonly id: string;
+  readonly forwardShot: string;
+  readonly reverseShot: string;
+  /** The head-wave branch along the top of layer `refractor` (branch number, 2 and up). */
+  readonly refractor: number;
+  readonly chosenBy: 'automatic' | 'user';
+  readonly spreadLength: number;
+  readonly commonReceivers: number;
+  readonly overlap: readonly [number, number];
+  readonly reciprocalTime: {
+    readonly forwardAtReverseShot: number | null;
+    readonly reverseAtForwardShot: number | null;
+    readonly from: readonly string[];
+    readonly value: number;
+    readonly valueSE: number;
+    /** t_AB − t_BA and the limit; null when only one of the two was read. */
+    readonly misfit: number | null;
+    readonly limit: number | null;
+    readonly exceeds: boolean | null;
+  };
+  readonly plusMinus: {
+    readonly velocity: number | null;
+    readonly velocitySE: number | null;
+    readonly receiverCount: number;
+    readonly coverage: readonly [number, number] | null;
+  };
+  readonly generalizedReciprocal: {
+    readonly velocity: number | null;
+    readonly velocitySE: number | null;
+    readonly receiverCount: number;
+    readonly coverage: readonly [number, number] | null;
+    readonly optimumXY: number | null;
+    /** Why that XY, in one sentence. */
+    readonly reason: string | null;
+    readonly planeLayerXY: number | null;
+    readonly resolved: boolean | null;
+    readonly mismatch: boolean | null;
+  };
+}
+
+/** Plane dipping layers under one pair of shots. */
+export interface DippingLayersResult {
+  readonly forwardShot: string;
+  readonly reverseShot: string;
+  readonly spreadLength: number;
+  readonly interfaces: readonly {
+    readonly interface: number;
+    readonly trueVelocity: number;
+    readonly trueVelocitySE: number;
+    /** Degrees, positive when the interface deepens from the forward shot towards the reverse shot. */
+    readonly dipDegrees: number;
+    readonly dipDegreesSE: number;
+    readonly depthUnderForwardShot: number;
+    readonly depthUnderForwardShotSE: number;
+    readonly depthUnderReverseShot: number;
+    readonly depthUnderReverseShotSE: number;
+  }[];
+  readonly notes: readonly string[];
+}
+
+/** RMS and mean of observed minus computed times over a group of picks. */
+export interface ResidualSummary {
+  readonly pickCount: number;
+  readonly rms: number | null;
+  readonly mean: number | null;
+}
+
+/** Travel times through the per-receiver depth section on a grid, against the picks. */
+export interface ForwardCheckResult {
+  readonly model: string;
+  readonly method: string;
+  readonly references: readonly string[];
+  readonly grid: { readonly spacing: number; readonly radius: number; readonly columns: number; readonly rows: number };
+  readonly overallRms: number | null;
+  readonly perShot: readonly (ResidualSummary & { readonly shot: string })[];
+  readonly perReceiver: readonly (ResidualSummary & { readonly receiverX: number })[];
+  readonly notes: readonly string[];
 }
 
 export interface WarningResult {
@@ -136,6 +245,10 @@ export interface Interpretation {
   readonly layers: readonly LayerResult[];
   readonly shots: readonly ShotResult[];
   readonly refractors: readonly RefractorResult[];
+  readonly reversedPairs?: readonly ReversedPairResult[];
+  readonly dippingLayers?: readonly DippingLayersResult[];
+  /** null when there is no per-receiver section to check. */
+  readonly forwardCheck?: ForwardCheckResult | null;
   readonly residuals: {
     readonly model: string;
     readonly overallRms: number | null;

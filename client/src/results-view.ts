@@ -2,12 +2,15 @@
  * The interpretation in words and tables: the layer table (velocity, thickness, depth to top, each
  * ± its standard error, and how each was obtained) with each layer's warnings under it; the shot
  * table (branches with apparent velocity, intercept time and crossovers) with each shot's warnings
- * beside it; the survey-wide warnings; the standing cautions; the references.
+ * beside it; the reversed-profile results (reversed pairs, dipping layers, the forward check of
+ * the depth section; their rows come from reversed-results.ts); the survey-wide warnings; the
+ * standing cautions; the references.
  */
 import type { Interpretation, ShotResult, WarningResult } from './api-types.js';
 import { branchStyle } from './branch-style.js';
 import { h } from './dom.js';
 import { branchLabel, plain, quantity, withError } from './format.js';
+import { dippingLayerTable, forwardCheckSummary, reversedPairTable, type Cell, type Table } from './reversed-results.js';
 
 const LEVEL_WORDS: Record<WarningResult['level'], string> = { caution: 'Caution', warning: 'Warning', info: 'Note' };
 
@@ -128,5 +131,82 @@ export function referenceList(result: Interpretation): HTMLElement {
   return h('section', { class: 'references', 'aria-label': 'References' },
     h('h3', {}, 'Methods and references'),
     h('ul', {}, ...result.references.map((reference) => h('li', {}, h('span', { class: 'reference-key' }, reference.key), ' ', reference.citation))),
+  );
+}
+
+// ---------------------------------------------------------------- reversed profiles
+
+/** Footnotes past this many are folded into a "Notes" disclosure on screen (the report prints them all). */
+const OPEN_FOOTNOTES = 1;
+
+function cellContent(cell: Cell): (Node | string)[] {
+  return [
+    ...(cell.chip !== undefined ? [branchChip(cell.chip), ' '] : []),
+    h('span', { class: 'cell-main' }, cell.text, cell.mark !== undefined ? h('strong', { class: 'check-mark' }, ` \u26a0\u202f${cell.mark}`) : null),
+    ...(cell.details ?? []).map((detail) => h('span', { class: 'cell-detail' }, detail)),
+  ];
+}
+
+/** A table of reversed-results.ts drawn as HTML: first column row headers, notes under their row, footnotes under the table. */
+export function resultTable(table: Table, className: string, printable: boolean): HTMLElement {
+  const columnCount = table.columns.length;
+  const body = table.rows.flatMap((row) => {
+    const cells = row.cells.map((cell, k) => h(k === 0 ? 'th' : 'td', {
+      ...(k === 0 ? { scope: 'row' } : {}),
+      class: [cell.numeric ? 'number' : null, cell.chip !== undefined ? 'chip-cell' : null, cell.wide ? 'wide-cell' : null].filter(Boolean).join(' ') || null,
+      title: cell.title ?? null,
+    }, ...cellContent(cell)));
+    const tr = h('tr', { 'data-key': row.key, class: row.flagged ? 'flagged' : null }, ...cells);
+    return row.notes.length > 0
+      ? [tr, h('tr', { class: 'row-warnings row-notes' }, h('td', { colspan: columnCount }, h('ul', { class: 'note-list' }, ...row.notes.map((note) => h('li', {}, note)))))]
+      : [tr];
+  });
+  const element = h('table', { class: `result-table ${className}`, 'aria-label': table.caption },
+    h('caption', {}, table.caption),
+    h('thead', {}, h('tr', {}, ...table.columns.map((column) => h('th', { scope: 'col' }, column)))),
+    h('tbody', {}, ...body),
+  );
+  if (table.footnotes.length === 0) return element;
+  const open = printable ? table.footnotes : table.footnotes.slice(0, OPEN_FOOTNOTES);
+  const folded = printable ? [] : table.footnotes.slice(OPEN_FOOTNOTES);
+  return h('div', { class: `table-block ${className}-block` }, element,
+    h('ul', { class: 'table-notes' }, ...open.map((note) => h('li', {}, note))),
+    folded.length > 0 ? h('details', { class: 'table-notes-more' }, h('summary', {}, `Notes (${folded.length})`),
+      h('ul', { class: 'table-notes' }, ...folded.map((note) => h('li', {}, note)))) : null,
+  );
+}
+
+/** The forward check of the depth section: overall RMS, each shot's RMS and mean, the worst receivers, the notes. */
+export function forwardCheckBlock(result: Interpretation): HTMLElement | null {
+  const summary = forwardCheckSummary(result);
+  if (!summary) return null;
+  return h('section', { class: 'forward-check', 'aria-label': 'Forward check' },
+    h('h3', {}, 'Forward check: travel times through the depth section'),
+    h('p', { class: 'forward-check-overall' }, h('strong', {}, 'Overall RMS of observed minus computed times: '),
+      summary.overall ?? 'no pick could be compared'),
+    h('p', { class: 'plot-note' }, `${summary.model} ${summary.grid}`),
+    h('div', { class: 'forward-check-tables' },
+      resultTable(summary.perShot, 'forward-check-shots', true),
+      resultTable(summary.worstReceivers, 'forward-check-receivers', true),
+    ),
+    summary.notes.length > 0 ? h('ul', { class: 'table-notes' }, ...summary.notes.map((note) => h('li', {}, note))) : null,
+  );
+}
+
+/**
+ * The reversed-profile results: reversed pairs, dipping layers and the forward check, each left
+ * out when the interpretation has none; null when it has none of them (a survey without reversed
+ * shots, or a revision stored before these results existed). `printable`: every footnote shown.
+ */
+export function reversedProfileResults(result: Interpretation, printable: boolean): HTMLElement | null {
+  const pairs = reversedPairTable(result);
+  const dipping = dippingLayerTable(result);
+  const check = forwardCheckBlock(result);
+  if (pairs.rows.length === 0 && dipping.rows.length === 0 && check === null) return null;
+  return h('section', { class: 'reversed-results', 'aria-label': 'Reversed profiles' },
+    h('h2', {}, 'Reversed profiles'),
+    pairs.rows.length > 0 ? resultTable(pairs, 'reversed-pair-table', printable) : null,
+    dipping.rows.length > 0 ? resultTable(dipping, 'dipping-layer-table', printable) : null,
+    check,
   );
 }

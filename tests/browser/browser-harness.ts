@@ -13,6 +13,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { afterAll, afterEach, beforeAll, expect } from 'vitest';
 import { startServer, type RunningServer } from '../../server/serve.js';
 
 export const CHROMIUM_PATH = process.env['SLOPEBREAK_CHROMIUM'] ?? '/usr/bin/chromium';
@@ -150,4 +151,24 @@ export async function traceRoles(page: Page, selector: string): Promise<{ role: 
     const plot = (globalThis as unknown as PageGlobals).document.querySelector(target);
     return (plot?.data ?? []).map((trace) => ({ role: trace.meta?.role ?? '', points: trace.x?.length ?? 0, type: trace.type ?? '' }));
   }, selector);
+}
+
+/**
+ * One browser session and one page for a whole test file: started before the first test, closed
+ * after the last, and after every test no console or page error may remain unexpected (the
+ * acceptance: no console errors in the browser). `opened` receives the session and the page.
+ */
+export function useSharedPage(viewport: { width: number; height: number }, opened: (shared: { session: BrowserSession; page: Page }) => void): void {
+  let session: BrowserSession | undefined;
+  beforeAll(async () => {
+    session = await startBrowserSession();
+    const { page } = await session.newPage(viewport);
+    opened({ session, page });
+  });
+  afterAll(async () => {
+    await session?.close();
+  });
+  afterEach(() => {
+    expect(session?.takeUnexpected() ?? [], 'console and page errors during the test').toEqual([]);
+  });
 }

@@ -12,14 +12,14 @@
  *
  * Screenshots of each view go to tests/browser/screenshots/ (not committed).
  */
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
-import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { range, syntheticSurvey } from '../helpers/synthetic-survey.js';
 import {
-  LAPTOP, PROJECTOR, SAMPLE_DIR, startBrowserSession, traceRoles, waitForPlot, type BrowserSession, type PageGlobals,
+  LAPTOP, PROJECTOR, SAMPLE_DIR, useSharedPage, traceRoles, waitForPlot, type BrowserSession, type PageGlobals,
 } from './browser-harness.js';
 
 let session: BrowserSession;
@@ -29,17 +29,7 @@ const scratch = mkdtempSync(join(tmpdir(), 'slopebreak-browser-files-'));
 /** Acceptance: an edit of a 1,000-pick survey shows its new result within a second. */
 const EDIT_BUDGET_MS = 1000;
 
-beforeAll(async () => {
-  session = await startBrowserSession();
-  ({ page } = await session.newPage(LAPTOP));
-});
-afterAll(async () => {
-  await session?.close();
-});
-afterEach(() => {
-  // Acceptance: no console errors in the browser during the tests.
-  expect(session.takeUnexpected(), 'console and page errors during the test').toEqual([]);
-});
+useSharedPage(LAPTOP, (shared) => ({ session, page } = shared));
 
 /** The text of every cell of the layer table's body, row by row. */
 async function layerRows(target: Page = page): Promise<string[]> {
@@ -114,12 +104,15 @@ async function openSurveyNamed(name: string): Promise<void> {
   await waitForPlot(page, '#travel-time-plot', before);
 }
 
+/** The bundled samples the harness loads as surveys (sample-surveys/*.csv), by name. */
+const SAMPLE_NAMES = readdirSync(SAMPLE_DIR).filter((name) => name.endsWith('.csv')).map((name) => name.replace(/\.csv$/, '')).sort();
+
 describe('the browser client', () => {
   it('on first sight shows the survey list and the latest survey: fitted travel-time plot and layer table, without a click', async () => {
     await page.goto('/');
     await waitForPlot(page, '#travel-time-plot');
     const names = await page.$$eval('.survey-list .survey-name', (items) => items.map((item) => item.textContent));
-    expect(names).toEqual(['fenwick-meadow-water-table', 'millbrook-quarry-bedrock']);
+    expect([...names].sort()).toEqual(SAMPLE_NAMES);
     const roles = await traceRoles(page, '#travel-time-plot');
     expect(roles.filter((trace) => trace.role === 'picks').length).toBeGreaterThanOrEqual(2);
     expect(roles.filter((trace) => trace.role === 'fitted-lines').length).toBeGreaterThanOrEqual(2);
@@ -154,7 +147,7 @@ describe('the browser client', () => {
     await page.waitForSelector('.upload-done', { timeout: 20_000 });
     await waitForPlot(page, '#travel-time-plot', before);
     expect(await page.textContent('.upload-done')).toContain('240 picks, 5 shots');
-    expect(await page.$$eval('.survey-list .survey-name', (items) => items.length)).toBe(3);
+    expect(await page.$$eval('.survey-list .survey-name', (items) => items.length)).toBe(SAMPLE_NAMES.length + 1);
     const roles = await traceRoles(page, '#travel-time-plot');
     expect(roles.filter((trace) => trace.role === 'fitted-lines').length).toBe(3);
     const rows = await layerRows();
@@ -175,7 +168,7 @@ describe('the browser client', () => {
     expect(await page.textContent('.upload-refused')).toContain('field-notes.csv was not loaded');
     const problemLines = await page.$$eval('.problem-table tbody tr td:first-child', (cells) => cells.map((cell) => Number(cell.textContent)));
     expect(problemLines).toEqual(expect.arrayContaining([3, 4]));
-    expect(await page.$$eval('.survey-list .survey-name', (items) => items.length)).toBe(3);
+    expect(await page.$$eval('.survey-list .survey-name', (items) => items.length)).toBe(SAMPLE_NAMES.length + 1);
     await session.screenshot(page, '03-refused-file');
   });
 
@@ -516,7 +509,7 @@ describe('the browser client', () => {
     await page.waitForFunction(() => !((globalThis as unknown as PageGlobals).document.querySelector('#survey-title')?.textContent ?? 'dense-line').includes('dense-line'));
     await waitForPlot(page, '#travel-time-plot');
     await page.fill('#survey-search', '');
-    await page.waitForFunction(() => (globalThis as unknown as PageGlobals).document.querySelectorAll('.survey-list .survey-name').length === 5);
+    await page.waitForFunction((expected) => (globalThis as unknown as PageGlobals).document.querySelectorAll('.survey-list .survey-name').length === expected, SAMPLE_NAMES.length + 3);
     await page.click('.survey-list li:has-text("thousand-picks") button:has-text("Rename")');
     await page.fill('.rename-form input', 'Ashgrove test line');
     await page.press('.rename-form input', 'Enter');
