@@ -337,6 +337,8 @@ export interface WeightedLine {
   readonly slopeSE: number;
   readonly intercept: number;
   readonly interceptSE: number;
+  /** Cov(intercept, slope), scaled as the SEs are. */
+  readonly covariance: number;
   /** √(Σ r²/(n − 2)) of the unweighted residuals, in the unit of y. */
   readonly residualSD: number;
   /** Σ r²/σ² over n − 2 (1 when the residuals scatter as the SEs say). */
@@ -376,6 +378,7 @@ export function weightedLine(x: readonly number[], y: readonly number[], standar
     slopeSE: inflation * Math.sqrt(slopeVariance),
     intercept,
     interceptSE: inflation * Math.sqrt(Math.max(0, interceptVariance)),
+    covariance: inflation * inflation * (covariance[0]![1]! - centre * slopeVariance),
     residualSD,
     reducedChiSquare,
     residuals,

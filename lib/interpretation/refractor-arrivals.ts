@@ -26,7 +26,8 @@ import type { Pick, PickSet } from '../picks/types.js';
 import type { SideSegmentation } from '../branches/types.js';
 import type { BranchParameters } from '../depth/types.js';
 import { headWaveDatumCorrection, upholeCorrection } from '../depth/near-surface-corrections.js';
-import { linearLeastSquares } from '../stats/linear-least-squares.js';
+import { weightedLine } from '../depth/delay-depth.js';
+import { median } from '../branches/median.js';
 import { maximum } from '../stats/extent.js';
 
 export interface RefractorArrivalsContext {
@@ -65,11 +66,6 @@ export interface SideRefractorArrivals {
   readonly correctionRefusals: readonly string[];
 }
 
-function median(values: readonly number[]): number {
-  const sorted = [...values].sort((left, right) => left - right);
-  const middle = Math.floor(sorted.length / 2);
-  return sorted.length % 2 === 1 ? (sorted[middle] as number) : ((sorted[middle - 1] as number) + (sorted[middle] as number)) / 2;
-}
 
 /**
  * The scatter σ̂ of picks about the chords of their neighbours (positions ascending, times aligned):
@@ -154,30 +150,21 @@ export function refractorArrivals(segmentation: SideSegmentation, refractor: num
     };
   });
   rows.sort((left, right) => left.x - right.x);
-  const meanOffset = rows.reduce((sum, row) => sum + row.offset, 0) / rows.length;
-  const fit = linearLeastSquares(
-    rows.map((row) => [1, row.offset - meanOffset]),
+  // The corrected times' line against offset, its covariance scaled by the reduced χ² when the
+  // picks scatter more than their sigmas say.
+  const fit = weightedLine(
+    rows.map((row) => row.offset),
     rows.map((row) => row.time),
-    rows.map((row) => 1 / row.sigma ** 2),
+    rows.map((row) => row.sigma),
   );
   if (!fit) return null;
-  const slowness = fit.coefficients[1] as number;
-  const centred = fit.coefficients[0] as number;
-  // Scale the covariance by the reduced χ² when the picks scatter more than their sigmas say.
-  const scale = Math.max(1, fit.weightedResidualSumOfSquares / Math.max(1, rows.length - 2));
-  const cov = fit.unscaledCovariance.map((row) => row.map((value) => value * scale));
-  const varSlope = (cov[1] as number[])[1] as number;
-  const varCentre = (cov[0] as number[])[0] as number;
-  const covCentreSlope = (cov[0] as number[])[1] as number;
-  // Intercept at offset 0: τ = c − s·ō.
   const line: BranchParameters = {
-    slowness,
-    intercept: centred - slowness * meanOffset,
-    slownessVariance: varSlope,
-    interceptVariance: varCentre - 2 * meanOffset * covCentreSlope + meanOffset ** 2 * varSlope,
-    covariance: covCentreSlope - meanOffset * varSlope,
+    slowness: fit.slope,
+    intercept: fit.intercept,
+    slownessVariance: fit.slopeSE ** 2,
+    interceptVariance: fit.interceptSE ** 2,
+    covariance: fit.covariance,
   };
-  const residuals = rows.map((row) => row.time - line.intercept - slowness * row.offset);
   const spacings = rows.slice(1).map((row, k) => row.x - (rows[k] as { x: number }).x);
   return {
     shot: sidePicks.shot,
@@ -190,7 +177,7 @@ export function refractorArrivals(segmentation: SideSegmentation, refractor: num
     receiverElevations: rows.map((row) => row.elevation),
     pickIndices: rows.map((row) => row.pickIndex),
     line,
-    lineResidualSD: Math.sqrt(residuals.reduce((sum, value) => sum + value * value, 0) / Math.max(1, rows.length - 2)),
+    lineResidualSD: fit.residualSD,
     sourceCorrection: rows.length > 0 ? sourceEndCorrection(context.pickSet.picks[rows[0]!.pickIndex] as Pick, context) : 0,
     largestReceiverCorrection: maximum(rows.map((row) => Math.abs(row.receiverCorrection)), 0),
     receiverSpacing: spacings.length > 0 ? median(spacings) : 0,

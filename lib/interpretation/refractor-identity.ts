@@ -77,8 +77,23 @@ function receiverX(segmentation: SideSegmentation, position: number): number {
   return sidePicks.side === 'forward' ? sidePicks.sourceX + offset : sidePicks.sourceX - offset;
 }
 
+type BranchPicks = Map<string, { x: number; label: number; time: number; sigma: number | null }>;
+
+/** Each side's picks on branches n and n + 1, read once per side and n (a side meets several partners). */
+const branchPicksCache = new WeakMap<SideSegmentation, Map<number, BranchPicks>>();
+
 /** Receiver → (branch label, time, sigma) of the picks on branches n and n + 1 of a side. */
-function picksOnBranches(segmentation: SideSegmentation, n: number): Map<string, { x: number; label: number; time: number; sigma: number | null }> {
+function picksOnBranches(segmentation: SideSegmentation, n: number): BranchPicks {
+  const cached = branchPicksCache.get(segmentation)?.get(n);
+  if (cached) return cached;
+  const found = readBranchPicks(segmentation, n);
+  const perSide = branchPicksCache.get(segmentation) ?? new Map<number, BranchPicks>();
+  perSide.set(n, found);
+  branchPicksCache.set(segmentation, perSide);
+  return found;
+}
+
+function readBranchPicks(segmentation: SideSegmentation, n: number): BranchPicks {
   const found = new Map<string, { x: number; label: number; time: number; sigma: number | null }>();
   for (const branch of segmentation.branches) {
     if (branch.index !== n && branch.index !== n + 1) continue;

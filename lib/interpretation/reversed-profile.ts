@@ -386,14 +386,12 @@ function carriedToShots(
   points: readonly SectionPoint[],
   dipping: readonly ShotPairDipping[],
   iface: number,
-  pickSet: PickSet,
+  sourceX: ReadonlyMap<string, number>,
 ): { x: number[]; depth: number[] } {
   const x = points.map((point) => point.x);
   const depth = points.map((point) => point.depthBelowGround as number);
   const first = x[0]!;
   const last = x[x.length - 1]!;
-  const sourceX = new Map<string, number>();
-  for (const pick of pickSet.picks) if (!sourceX.has(pick.shot)) sourceX.set(pick.shot, pick.sourceX);
   const anchors: { x: number; depth: number }[] = [];
   for (const entry of dipping) {
     const layer = entry.result.interfaces.find((candidate) => candidate.interface === iface);
@@ -438,12 +436,20 @@ function runForwardCheck(
   pickSet: PickSet,
   sections: readonly DelaySection[],
   dipping: readonly ShotPairDipping[],
-  combinedDepths: readonly number[],
+  plane: readonly number[],
   velocities: readonly Estimate[],
   warnings: InterpretationWarning[],
   timeResolution: number,
 ): ReversedProfile['forwardCheck'] {
-  const plane = combinedDepths;
+  // Shots, their positions and the picks, read once for whichever section is checked.
+  const firstPicks = new Map<string, PickSet['picks'][number]>();
+  for (const pick of pickSet.picks) if (!firstPicks.has(pick.shot)) firstPicks.set(pick.shot, pick);
+  const shots = pickSet.shotIds.map((id) => {
+    const pick = firstPicks.get(id)!;
+    return { id, x: pick.sourceX, depth: pick.sourceDepth ?? 0 };
+  });
+  const sourceX = new Map(shots.map((shot) => [shot.id, shot.x]));
+  const picks = pickSet.picks.map((pick) => ({ shot: pick.shot, receiverX: pick.receiverX, time: pick.time, excluded: pick.excluded }));
   for (const method of ['generalized-reciprocal', 'plus-minus'] as const) {
     const own = sections.filter((entry) => entry.method === method);
     if (own.length === 0) continue;
@@ -456,7 +462,7 @@ function runForwardCheck(
       const section = own.find((entry) => entry.refractor === refractor);
       const points = section?.points.filter((point) => point.depthBelowGround !== null) ?? [];
       const planeDepth = plane[refractor - 2];
-      if (points.length > 0) interfaces.push(carriedToShots(points, dipping, refractor - 1, pickSet));
+      if (points.length > 0) interfaces.push(carriedToShots(points, dipping, refractor - 1, sourceX));
       else if (planeDepth !== undefined && planeDepth > 0) interfaces.push({ x: [0], depth: [planeDepth] });
       else if (refractor > 2 && interfaces.length > 0) break; // deeper layers unresolved: the section stops here
       else {
@@ -468,13 +474,6 @@ function runForwardCheck(
       modelVelocities.push(ownVelocity ?? velocities[refractor - 1]!.value);
     }
     if (!complete) continue;
-    const firstPicks = new Map<string, PickSet['picks'][number]>();
-    for (const pick of pickSet.picks) if (!firstPicks.has(pick.shot)) firstPicks.set(pick.shot, pick);
-    const shots = pickSet.shotIds.map((id) => {
-      const pick = firstPicks.get(id)!;
-      return { id, x: pick.sourceX, depth: pick.sourceDepth ?? 0 };
-    });
-    const picks = pickSet.picks.map((pick) => ({ shot: pick.shot, receiverX: pick.receiverX, time: pick.time, excluded: pick.excluded }));
     // Bounded work on long lines: about FORWARD_CHECK_NODE_BUDGET node visits over all shots.
     const maxNodes = Math.max(MIN_FORWARD_CHECK_NODES, Math.min(DEFAULT_FORWARD_CHECK_MAX_NODES, Math.floor(FORWARD_CHECK_NODE_BUDGET / Math.max(1, shots.length))));
     // The grid's top is flat and the section hangs from it by its depths below the ground: relief
