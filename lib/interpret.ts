@@ -25,7 +25,8 @@ import { crossoverDistanceDepths, fittedCrossovers, observedCrossover } from './
 import { bootstrapInterceptTimeDepths, type BootstrapDepths } from './depth/bootstrap.js';
 import { branchParameters } from './interpretation/branch-parameters.js';
 import { firstBranchIndices } from './interpretation/branch-identity.js';
-import { identifyRefractors, type RefractorMerge } from './interpretation/refractor-identity.js';
+import { identifyRefractors, type MinusTimeEvidence, type RefractorMerge } from './interpretation/refractor-identity.js';
+import { formatQuantity } from './checks/wording.js';
 import { reversedProfile, type ReversedProfile } from './interpretation/reversed-profile.js';
 import type { PairChoice } from './interpretation/reversed-pairs.js';
 import { combineSideLayers, thicknessesFromDepths, type CombinedLayers } from './interpretation/survey-layers.js';
@@ -187,21 +188,24 @@ export function interpretSurvey(
   return { pickSet, sides, combined, model, residuals, refractorTests: identity.tests, reversed, warnings };
 }
 
+/** One `branches-one-refractor` warning per branch split undone, naming the pairs and where the split lay. */
 function mergeWarnings(tests: readonly RefractorMerge[]): InterpretationWarning[] {
-  return tests
-    .filter((test) => test.merged)
-    .map((test) => {
-      const straightest = test.evidence.filter((entry) => entry.verdict === 'straight');
-      const pairs = straightest.slice(0, 3).map((entry) => `${entry.forwardShot}–${entry.reverseShot}`).join(', ');
-      const largest = Math.max(...straightest.map((entry) => entry.relativeBend));
-      return {
-        code: 'branches-one-refractor' as const,
-        level: 'info' as const,
-        message: `survey: the automatic split of head-wave branches ${test.branch} and ${test.branch + 1} was undone — the reversed minus times of ${straightest.length} pair(s) (${pairs}) run straight across it (bend at most ${(largest * 100).toFixed(1)} % of the refractor slowness), so it is one refractor whose depth changes, not a deeper layer; assign the branches yourself if a borehole says otherwise`,
-        branch: test.branch,
-        details: { pairs: straightest.length, largestBend: largest },
-      };
-    });
+  const byBranch = new Map<number, MinusTimeEvidence[]>();
+  for (const test of tests.filter((entry) => entry.merged)) {
+    byBranch.set(test.branch, [...(byBranch.get(test.branch) ?? []), ...test.evidence.filter((entry) => entry.verdict === 'straight')]);
+  }
+  return [...byBranch.entries()].map(([branch, straightest]) => {
+    const pairs = straightest.slice(0, 3).map((entry) => `${entry.forwardShot} → ${entry.reverseShot}`).join(', ');
+    const largest = Math.max(...straightest.map((entry) => entry.relativeBend));
+    const hinges = [...new Set(straightest.map((entry) => formatQuantity(entry.hingeX, 'm', 4)))];
+    return {
+      code: 'branches-one-refractor' as const,
+      level: 'info' as const,
+      message: `survey: the automatic split of head-wave branches ${branch} and ${branch + 1} (at x = ${hinges.slice(0, 4).join(', ')}${hinges.length > 4 ? ', …' : ''}) was undone — the reversed minus times of ${straightest.length} pair${straightest.length === 1 ? '' : 's'} (${pairs}${straightest.length > 3 ? ', …' : ''}) run straight across it (bend at most ${(largest * 100).toFixed(1)} % of the refractor slowness), so it is one refractor whose depth changes, not a deeper layer; assign the branches yourself if a borehole says otherwise`,
+      branch,
+      details: { pairs: straightest.length, largestBend: largest, hingeX: straightest[0]?.hingeX ?? 0 },
+    };
+  });
 }
 
 function depthsForSide(

@@ -131,6 +131,8 @@ interface Digits {
 
 /** Worst receivers of the forward check listed in the summary. */
 const WORST_RECEIVERS = 5;
+/** Seams listed per depth section in the text report (the JSON has them all). */
+const SEAMS_SHOWN = 8;
 
 /** Reversed pairs, dipping layers, the depth section under every receiver and its forward check. */
 function reversedProfileLines(result: Interpretation, digits: Digits): string[] {
@@ -188,14 +190,21 @@ function reversedProfileLines(result: Interpretation, digits: Digits): string[] 
       plusMinus(row.plus?.depth, row.plus?.depthSE, distanceDigits),
       plusMinus(row.grm?.depth, row.grm?.depthSE, distanceDigits),
       ...(withElevation ? [fixed(row.grm?.elevation ?? row.plus?.elevation, distanceDigits)] : []),
-      row.grm?.pair ?? row.plus?.pair ?? '—',
+      row.grm?.pair ?? (row.plus?.pair ? `${row.plus.pair} (plus-minus)` : '—'),
     ]);
     out.push('');
     out.push(`DEPTH SECTION, INTERFACE ${iface}  (top of layer ${iface + 1}; depth below ground under every receiver, ${units.distance})`);
-    out.push(...table([`x ${units.distance}`, 'plus-minus', 'GRM', ...(withElevation ? ['refractor elevation'] : []), 'pair (GRM)'], rows));
-    const seams = grm?.seams ?? plus?.seams ?? [];
+    out.push(...table([`x ${units.distance}`, 'plus-minus', 'GRM', ...(withElevation ? ['refractor elevation'] : []), 'pair'], rows));
+    const allSeams = grm?.seams ?? plus?.seams ?? [];
+    // A long line has hundreds of seams: the ones whose step stands out most, in x order.
+    const stepRatio = (seam: (typeof allSeams)[number]) => (seam.step === null ? -1 : Math.abs(seam.step) / Math.max(seam.stepSE ?? 0, 1e-9));
+    const seams = allSeams.length <= SEAMS_SHOWN ? allSeams : [...allSeams].sort((left, right) => stepRatio(right) - stepRatio(left)).slice(0, SEAMS_SHOWN).sort((left, right) => left.x - right.x);
     if (seams.length > 0) {
-      out.push(`  seams (the pair changes; step = new pair − old pair where both cover, ${units.distance}):`);
+      out.push(
+        allSeams.length > seams.length
+          ? `  seams: ${allSeams.length} (the pair changes); the ${seams.length} largest steps in standard errors (step = new pair − old pair where both cover, ${units.distance}; all of them in the JSON):`
+          : `  seams (the pair changes; step = new pair − old pair where both cover, ${units.distance}):`,
+      );
       out.push(
         ...wrap(
           seams.map((seam) => `${fixed(seam.x, distanceDigits)}: (${seam.fromPair}) to (${seam.toPair}), step ${seam.step === null ? 'no common receivers' : plusMinus(seam.step, seam.stepSE, distanceDigits)}`).join('; '),
@@ -210,6 +219,7 @@ function reversedProfileLines(result: Interpretation, digits: Digits): string[] 
     out.push(`FORWARD CHECK  picks − times through the ${check.model.includes('plus-minus') ? 'plus-minus' : 'GRM'} section on a ${fixed(check.grid.spacing, distanceDigits + 1)} ${units.distance} grid (${units.time}): overall RMS ${fixed(check.overallRms, timeDigits)}`);
     out.push(...wrap(check.perShot.map((entry) => `${entry.shot} ${fixed(entry.rms, timeDigits)} (mean ${fixed(entry.mean, timeDigits)})`).join(', '), '  '));
     const worst = [...check.perReceiver].filter((entry) => entry.rms !== null).sort((left, right) => (right.rms ?? 0) - (left.rms ?? 0)).slice(0, WORST_RECEIVERS);
+    for (const note of check.notes) out.push(...wrap(`grid note: ${note}`, '  '));
     out.push(`  worst receivers: ${worst.map((entry) => `${fixed(entry.receiverX, distanceDigits)} ${units.distance}: ${fixed(entry.rms, timeDigits)}`).join(', ')}`);
   }
   return out;

@@ -257,7 +257,7 @@ export function directOriginWarnings(context: BranchContext, timeResolution: num
     {
       code: 'direct-not-through-origin',
       level: 'warning',
-      message: `${where(context)}: the direct-wave line meets zero offset at ${milliseconds.toFixed(2)} ms${ratio}, not at zero; check the trigger (time zero) and the source position, and whether the shot was buried (slopebreak does not yet correct for shot depth)`,
+      message: `${where(context)}: the direct-wave line meets zero offset at ${milliseconds.toFixed(2)} ms${ratio}, not at zero; check the trigger (time zero) and the source position, and whether the shot was buried (a buried shot's direct wave is hyperbolic near it; give source_depth_m and uphole_ms so the delay-time sections bring it up to the ground)`,
       ...base(context),
       details: { freeIntercept: test.intercept, interceptSE: test.interceptSE, allowed: test.allowed },
     },

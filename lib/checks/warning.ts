@@ -55,13 +55,18 @@ export const WARNING_CODES = {
   'reversed-pair-refused': 'A reversed pair the user named cannot be formed (no common refractor, too few common receivers or no reciprocal time).',
   'no-reversed-coverage': 'No receiver has the same refractor recorded from both directions, so no depth under the receivers is given.',
   'delay-time-note': 'The plus-minus or generalized reciprocal method reported a limitation of its result.',
+  'dipping-layer-note': 'The dipping-layer solution under a pair of shots is steep, inconsistent between its interfaces or has a depth that is not positive.',
+  'elevation-missing': 'With a datum, shots or receivers without a ground elevation cannot be lowered to it; their picks are left out of the delay-time depths.',
+  'datum-above-ground': 'The datum lies above some source or receiver end; it should lie below every one.',
+  'datum-too-low': "A side's datum correction exceeds half its corrected intercept time: the datum reaches below the near-surface layer.",
+  'shot-below-layer': 'A buried shot lies below the base of layer 1 (or below a refractor), where the near-surface correction does not hold.',
   'forward-check-misfit': 'The travel times computed through the interpreted depth section miss this shot\'s or receiver\'s picks by more than their uncertainty.',
   // --- forward model
   'model-misfit': 'The interpreted model explains this shot worse than the picks\' uncertainty.',
   // --- the survey as a whole
   'zero-offset-picks': 'Picks at the source position belong to neither side of the shot and are not fitted.',
   'nothing-interpreted': 'No shot side had a branch that could be fitted, so no layer is reported.',
-  'corrections-not-applied': 'Shot depths, uphole times or ground elevations were given but are not yet corrected for by the horizontal-layer methods.',
+  'corrections-not-applied': 'Shot depths, uphole times or ground elevations were given but are not corrected for by the horizontal-layer methods (the delay-time sections do correct for them).',
 } as const;
 
 export type WarningCode = keyof typeof WARNING_CODES;

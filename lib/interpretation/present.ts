@@ -135,7 +135,10 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
   const { reversed } = result;
   const pairId = (index: number) => {
     const pair = reversed.pairs[index]?.pair;
-    return pair ? `${pair.forward.shot} → ${pair.reverse.shot}` : '';
+    if (!pair) return '';
+    // The same two shots may pair on several refractors: the id then names the refractor too.
+    const shared = reversed.pairs.some((other) => other.pair !== pair && other.pair.forward.shot === pair.forward.shot && other.pair.reverse.shot === pair.reverse.shot);
+    return `${pair.forward.shot} → ${pair.reverse.shot}${shared ? ` (refractor ${pair.refractor})` : ''}`;
   };
   const delayRefractors: RefractorResult[] = reversed.sections.map((section) => ({
     interface: section.refractor - 1,
@@ -145,6 +148,7 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
     velocitySE: section.velocity === null ? null : velocity(section.velocity.standardError),
     points: section.points.map((point) => ({
       x: distance(point.x),
+      // With a datum every point has its ground elevation (receivers without one are left out upstream).
       depth: distance(point.depthBelowGround ?? point.depth),
       depthSE: distance(point.depthSE),
       elevation: point.elevation === null ? null : distance(point.elevation),
@@ -243,7 +247,7 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
     checked === null
       ? null
       : {
-          model: `first arrivals on a grid through the ${DELAY_METHOD_WORDS[checked.method]} depth section (velocities: the survey's overburden and the section's refractor velocity; the section hung by its depths below the ground from a flat top, so relief enters through the depths; interfaces held level beyond the reversed coverage)`,
+          model: `first arrivals on a grid through the ${DELAY_METHOD_WORDS[checked.method]} depth section (velocities: the survey's overburden and the section's refractor velocity; the section hung by its depths below the ground from a flat top, so relief enters through the depths; beyond the reversed coverage each interface runs to the shots outside it at the depth of their own delay times, and is held level past the outermost)`,
           method: 'shortest-path first arrivals on a grid',
           references: [...FORWARD_CHECK_REFERENCES],
           grid: { spacing: distance(checked.result.grid.spacing), radius: checked.result.grid.radius, columns: checked.result.grid.columns, rows: checked.result.grid.rows },

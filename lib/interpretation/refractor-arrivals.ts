@@ -20,7 +20,9 @@
  * floored at the picks' rounding (resolution/√12).
  *
  * A correction that cannot be made (an uphole velocity not below the refractor's) is left out and
- * named in `correctionRefusals`.
+ * named in `correctionRefusals`. With a datum, a pick whose receiver has no ground elevation is left
+ * out, and a side whose shot has none gives no arrivals (an end cannot be lowered by an unknown
+ * height; `checks/datum-checks.ts` names them).
  */
 import type { Pick, PickSet } from '../picks/types.js';
 import type { SideSegmentation } from '../branches/types.js';
@@ -111,13 +113,14 @@ function sourceEndCorrection(pick: Pick, context: RefractorArrivalsContext, refu
   return added;
 }
 
-function receiverEndCorrection(pick: Pick, context: RefractorArrivalsContext): number {
+function receiverEndCorrection(pick: Pick, context: RefractorArrivalsContext, refusals?: Set<string>): number {
   if (context.datumElevation === null || pick.receiverElevation === null) return 0;
   const lowered = headWaveDatumCorrection({
     lowering: pick.receiverElevation - context.datumElevation,
     nearSurfaceVelocity: context.nearSurfaceVelocity,
     refractorVelocity: context.refractorVelocity,
   });
+  if (!lowered.ok) refusals?.add(`the receivers of shot ${pick.shot} were not lowered to the datum: ${lowered.message}`);
   return lowered.ok ? lowered.time : 0;
 }
 
@@ -135,10 +138,16 @@ export function refractorArrivals(segmentation: SideSegmentation, refractor: num
     floor,
   );
   const refusals = new Set<string>();
-  const rows = branch.members.map((position) => {
+  const datum = context.datumElevation !== null;
+  // With a datum, an end without a ground elevation cannot be lowered to it: the side (no source
+  // elevation) or the pick (no receiver elevation) is left out, never lowered by 0 m (`datum-checks.ts` warns).
+  const members = branch.members.filter((position) => !datum || context.pickSet.picks[sidePicks.pickIndices[position] as number]!.receiverElevation !== null);
+  if (members.length < 3) return null;
+  if (datum && context.pickSet.picks[sidePicks.pickIndices[members[0]!] as number]!.sourceElevation === null) return null;
+  const rows = members.map((position) => {
     const pickIndex = sidePicks.pickIndices[position] as number;
     const pick = context.pickSet.picks[pickIndex] as Pick;
-    const receiverCorrection = receiverEndCorrection(pick, context);
+    const receiverCorrection = receiverEndCorrection(pick, context, refusals);
     return {
       x: pick.receiverX,
       offset: sidePicks.offsets[position] as number,

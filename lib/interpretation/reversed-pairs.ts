@@ -154,6 +154,8 @@ export function reversedPairs(
   arrivals: readonly SideRefractorArrivals[],
   choices: readonly PairChoice[] | null,
   timeResolution: number,
+  /** Every shot of the survey and its source x, m: names a user's pair of an unknown shot or in the wrong order. */
+  shotPositions: ReadonlyMap<string, number> = new Map(),
 ): { readonly pairs: readonly ReversedPair[]; readonly refused: readonly RefusedPair[] } {
   const pairs: ReversedPair[] = [];
   const refused: RefusedPair[] = [];
@@ -199,6 +201,27 @@ export function reversedPairs(
       const candidates = forwards.filter((forward) => forward.shot === choice.forwardShot);
       const partners = reverses.filter((reverse) => reverse.shot === choice.reverseShot);
       const reasons: string[] = [];
+      const unknown = [choice.forwardShot, choice.reverseShot].filter((shot) => shotPositions.size > 0 && !shotPositions.has(shot));
+      if (unknown.length > 0) {
+        const known = [...shotPositions.keys()];
+        refused.push({
+          choice,
+          reason: `there is no shot ${unknown.map((shot) => `"${shot}"`).join(' or ')} in the pick table (its shots: ${known.slice(0, 8).join(', ')}${known.length > 8 ? ', …' : ''}); check the spelling`,
+        });
+        continue;
+      }
+      const forwardX = shotPositions.get(choice.forwardShot);
+      const reverseX = shotPositions.get(choice.reverseShot);
+      if (forwardX !== undefined && reverseX !== undefined && !(forwardX < reverseX)) {
+        refused.push({
+          choice,
+          reason:
+            forwardX === reverseX
+              ? `both shots are at x = ${forwardX} m; a reversed pair needs shots at the two ends of the common receivers`
+              : `the order is wrong: the first shot of a pair is the one at the smaller x (${choice.forwardShot} is at ${forwardX} m, ${choice.reverseShot} at ${reverseX} m) — name it ${choice.reverseShot}:${choice.forwardShot}`,
+        });
+        continue;
+      }
       if (candidates.length === 0) reasons.push(`shot ${choice.forwardShot} has no forward head-wave branch`);
       if (partners.length === 0) reasons.push(`shot ${choice.reverseShot} has no reverse head-wave branch`);
       let formed = 0;

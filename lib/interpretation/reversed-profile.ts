@@ -35,10 +35,12 @@ import { generalizedReciprocal, type GrmResult } from '../depth/generalized-reci
 import { forwardCheck, DEFAULT_FORWARD_CHECK_MAX_NODES, type ForwardCheck } from '../model/forward-check.js';
 import type { InterpretationWarning } from '../checks/warning.js';
 import { reciprocalTimeWarnings } from '../checks/reciprocal-checks.js';
+import { buriedShotPlacement, datumDepthWarnings, datumWarnings, elevationGaps } from '../checks/datum-checks.js';
 import { formatQuantity } from '../checks/wording.js';
 import type { CombinedLayers } from './survey-layers.js';
 import { thicknessesFromDepths } from './survey-layers.js';
 import { refractorArrivals, type SideRefractorArrivals } from './refractor-arrivals.js';
+import { carryToShots, type ReferenceInterface } from './section-ends.js';
 import { reversedPairs, type PairChoice, type RefusedPair, type ReversedPair } from './reversed-pairs.js';
 
 export type DelayMethod = 'plus-minus' | 'generalized-reciprocal';
@@ -115,11 +117,25 @@ export interface ReversedProfile {
 export const FORWARD_CHECK_NODE_BUDGET = 1_500_000;
 export const MIN_FORWARD_CHECK_NODES = 5_000;
 
+/** The forward check's default grid refined this many times where the node budget allows (less grid lateness to allow for). */
+export const FORWARD_CHECK_FINENESS = 4;
+
 /** Fewest receivers under which a section's own refractor velocity is used in the forward check (common practice). */
 export const MIN_SECTION_POINTS_FOR_VELOCITY = 8;
 
 /** Misfit of the forward check beyond this many times the picks' sigma is warned about (common practice, METHODS §12). */
 export const FORWARD_MISFIT_SIGMAS = 2;
+
+/**
+ * The RMS misfit a correct section may show: FORWARD_MISFIT_SIGMAS × the picks' sigma (at least
+ * the time resolution), plus the grid's own lateness for head waves, up to about
+ * h·√(s_k² − s_{k+1}²) for each interface between node rows (`forward-check.ts`, METHODS §12).
+ */
+export function forwardMisfitAllowance(pickSigma: number, spacing: number, velocities: readonly number[]): number {
+  let grid = 0;
+  for (let k = 0; k + 1 < velocities.length; k += 1) grid += spacing * Math.sqrt(Math.max(0, velocities[k]! ** -2 - velocities[k + 1]! ** -2));
+  return FORWARD_MISFIT_SIGMAS * pickSigma + grid;
+}
 
 const ms = (seconds: number) => formatQuantity(seconds * 1000, 'ms', 3);
 
@@ -265,9 +281,12 @@ export function reversedProfile(
     warnings.push({
       code: 'delay-time-note',
       level: 'warning',
-      message: `a datum at ${formatQuantity(settings.datumElevation, 'm')} was asked for, but the pick table gives no source and receiver elevations; depths are given below the ground instead — add source_elevation and receiver_elevation columns`,
+      message: `a datum at ${formatQuantity(settings.datumElevation, 'm')} was asked for, but the pick table gives no ${pickSet.columns.sourceElevation ? 'receiver' : pickSet.columns.receiverElevation ? 'source' : 'source and receiver'} elevations; depths are given below the ground instead — add the ${[pickSet.columns.sourceElevation ? null : 'source_elev_m', pickSet.columns.receiverElevation ? null : 'receiver_elev_m'].filter((name) => name !== null).join(' and ')} column${pickSet.columns.sourceElevation || pickSet.columns.receiverElevation ? '' : 's'} (any length unit, e.g. _ft)`,
     });
   }
+  if (datum !== null) warnings.push(...datumWarnings(pickSet, datum, elevationGaps(pickSet)));
+  const buried = buriedShotPlacement(pickSet, combined.depths);
+  warnings.push(...buried.warnings);
   const empty: ReversedProfile = { pairs: [], refused: [], dipping: [], sections: [], forwardCheck: null, referenceSurface: datum === null ? 'ground' : 'datum', warnings };
   if (velocities.length < 2) return empty;
 
@@ -281,13 +300,16 @@ export function reversedProfile(
         datumElevation: datum,
         timeResolution: settings.timeResolution,
       });
-      if (found) arrivals.push(found);
+      if (found && !buried.excluded.has(`${found.shot}\u0000${refractor}`)) arrivals.push(found);
     }
   }
+  if (datum !== null) warnings.push(...datumDepthWarnings(arrivals, datum));
   for (const refusal of new Set(arrivals.flatMap((entry) => entry.correctionRefusals))) {
     warnings.push({ code: 'delay-time-note', level: 'warning', message: `${refusal}; its head-wave times are used as recorded, so the depths near it are off by about the correction` });
   }
-  const { pairs, refused } = reversedPairs(arrivals, settings.pairs, settings.timeResolution);
+  const shotPositions = new Map<string, number>();
+  for (const pick of pickSet.picks) if (!shotPositions.has(pick.shot)) shotPositions.set(pick.shot, pick.sourceX);
+  const { pairs, refused } = reversedPairs(arrivals, settings.pairs, settings.timeResolution, shotPositions);
   for (const entry of refused) {
     warnings.push({
       code: 'reversed-pair-refused',
@@ -372,72 +394,84 @@ export function reversedProfile(
     });
   }
 
-  const checked = settings.forwardCheck === false ? null : runForwardCheck(pickSet, sections, dipping, combined.depths, velocities, warnings, settings.timeResolution);
+  warnings.push(...dippingNoteWarnings(dipping));
+
+  const checked = settings.forwardCheck === false ? null : runForwardCheck(pickSet, sections, arrivals, combined.depths, velocities, datum, warnings, settings.timeResolution);
   return { pairs: analyses, refused, dipping, sections, forwardCheck: checked, referenceSurface: datum === null ? 'ground' : 'datum', warnings };
 }
 
-/**
- * A section's points, carried beyond its ends to the nearest shots outside it by the plane
- * dipping-layer depth under those shots (the planar model between the last receiver and the shot,
- * rather than a level interface), so the forward check's rays from those shots go down through a
- * refractor of the right depth.
- */
-function carriedToShots(
-  points: readonly SectionPoint[],
-  dipping: readonly ShotPairDipping[],
-  iface: number,
-  sourceX: ReadonlyMap<string, number>,
-): { x: number[]; depth: number[] } {
-  const x = points.map((point) => point.x);
-  const depth = points.map((point) => point.depthBelowGround as number);
-  const first = x[0]!;
-  const last = x[x.length - 1]!;
-  const anchors: { x: number; depth: number }[] = [];
-  for (const entry of dipping) {
-    const layer = entry.result.interfaces.find((candidate) => candidate.interface === iface);
-    if (!layer) continue;
-    anchors.push({ x: sourceX.get(entry.forwardShot)!, depth: layer.verticalDepthA.value });
-    anchors.push({ x: sourceX.get(entry.reverseShot)!, depth: layer.verticalDepthB.value });
-  }
-  const usable = anchors.filter((anchor) => anchor.depth > 0 && Number.isFinite(anchor.depth));
-  const left = usable.filter((anchor) => anchor.x < first).sort((a, b) => b.x - a.x)[0];
-  const right = usable.filter((anchor) => anchor.x > last).sort((a, b) => a.x - b.x)[0];
-  return {
-    x: [...(left ? [left.x] : []), ...x, ...(right ? [right.x] : [])],
-    depth: [...(left ? [left.depth] : []), ...depth, ...(right ? [right.depth] : [])],
-  };
+/** Delay-method notes left out of the warnings: a routine step of the XY choice, and pairs the pairing already dropped. */
+const QUIET_DELAY_NOTES = new Set(['xy-interpolated', 'too-few-common-receivers']);
+
+const pairName = (pair: ReversedPair) => `${pair.forward.shot} → ${pair.reverse.shot}`;
+
+/** Up to `shown` names and how many more. */
+function listedPairs(names: readonly string[], shown = 4): string {
+  return names.length <= shown ? names.join(', ') : `${names.slice(0, shown).join(', ')} and ${names.length - shown} more`;
 }
 
-/** The delay-method notes a practitioner must see, one warning per pair and code. */
+/**
+ * The delay-method notes a practitioner must see, one warning per method and note code over the
+ * whole survey (a long line has hundreds of pairs): the first pair's message, and the pairs and
+ * receivers it concerns counted and named.
+ */
 function delayNoteWarnings(analyses: readonly PairAnalysis[]): InterpretationWarning[] {
-  const shown = new Set(['minus-time-curved', 'refractor-steep', 'delay-below-upper-layers', 'no-head-wave', 'minus-time-slope-not-positive', 'velocity-slope-not-positive', 'xy-mismatch', 'xy-not-resolved', 'xy-at-scan-edge']);
-  const warnings: InterpretationWarning[] = [];
+  const groups = new Map<string, { method: string; code: string; first: string; pair: ReversedPair; pairs: string[]; notes: number }>();
   for (const { pair, plusMinus: pm, generalizedReciprocal: grm } of analyses) {
     for (const [method, notes] of [['plus-minus', pm.notes], ['GRM', grm.notes]] as const) {
       const seen = new Set<string>();
       for (const note of notes) {
-        if (!shown.has(note.code) || seen.has(note.code)) continue;
+        if (QUIET_DELAY_NOTES.has(note.code)) continue;
+        const key = `${method}\u0000${note.code}`;
+        const group = groups.get(key) ?? { method, code: note.code, first: note.message, pair, pairs: [], notes: 0 };
+        group.notes += 1;
+        if (!seen.has(note.code)) group.pairs.push(pairName(pair));
         seen.add(note.code);
-        warnings.push({
-          code: 'delay-time-note',
-          level: 'caution',
-          message: `shots ${pair.forward.shot} and ${pair.reverse.shot}, refractor ${pair.refractor}, ${method}: ${note.message}`,
-          shot: pair.forward.shot,
-          layer: pair.refractor,
-          details: { note: note.code, reverseShot: pair.reverse.shot },
-        });
+        groups.set(key, group);
       }
     }
   }
-  return warnings;
+  return [...groups.values()].map((group) => ({
+    code: 'delay-time-note' as const,
+    level: 'caution' as const,
+    message:
+      group.pairs.length === 1
+        ? `pair ${pairName(group.pair)}, refractor ${group.pair.refractor}, ${group.method}: ${group.first}${group.notes > 1 ? ` (and ${group.notes - 1} more such note${group.notes > 2 ? 's' : ''} on this pair)` : ''}`
+        : `${group.method}: the same note on ${group.pairs.length} pairs (${listedPairs(group.pairs)}); on pair ${pairName(group.pair)}, refractor ${group.pair.refractor}: ${group.first}`,
+    shot: group.pair.forward.shot,
+    layer: group.pair.refractor,
+    details: { note: group.code, method: group.method, pairs: group.pairs.length, notes: group.notes, reverseShot: group.pair.reverse.shot },
+  }));
+}
+
+/** The dipping-layer notes (`dip-steep`, `depth-not-positive`, `dip-inconsistent`, …), one warning per code over the survey. */
+function dippingNoteWarnings(dipping: readonly ShotPairDipping[]): InterpretationWarning[] {
+  const groups = new Map<string, { code: string; first: string; entry: ShotPairDipping; pairs: string[] }>();
+  for (const entry of dipping) {
+    const seen = new Set<string>();
+    for (const note of entry.result.notes) {
+      const group = groups.get(note.code) ?? { code: note.code, first: note.message, entry, pairs: [] };
+      if (!seen.has(note.code)) group.pairs.push(`${entry.forwardShot} → ${entry.reverseShot}`);
+      seen.add(note.code);
+      groups.set(note.code, group);
+    }
+  }
+  return [...groups.values()].map((group) => ({
+    code: 'dipping-layer-note' as const,
+    level: 'caution' as const,
+    message: `dipping layers under ${group.pairs.length === 1 ? `shots ${group.pairs[0]}` : `${group.pairs.length} pairs of shots (${listedPairs(group.pairs)}); the first, ${group.entry.forwardShot} → ${group.entry.reverseShot}`}: ${group.first}`,
+    shot: group.entry.forwardShot,
+    details: { note: group.code, pairs: group.pairs.length, reverseShot: group.entry.reverseShot },
+  }));
 }
 
 function runForwardCheck(
   pickSet: PickSet,
   sections: readonly DelaySection[],
-  dipping: readonly ShotPairDipping[],
+  arrivals: readonly SideRefractorArrivals[],
   plane: readonly number[],
   velocities: readonly Estimate[],
+  datum: number | null,
   warnings: InterpretationWarning[],
   timeResolution: number,
 ): ReversedProfile['forwardCheck'] {
@@ -446,9 +480,9 @@ function runForwardCheck(
   for (const pick of pickSet.picks) if (!firstPicks.has(pick.shot)) firstPicks.set(pick.shot, pick);
   const shots = pickSet.shotIds.map((id) => {
     const pick = firstPicks.get(id)!;
-    return { id, x: pick.sourceX, depth: pick.sourceDepth ?? 0 };
+    return { id, x: pick.sourceX, depth: pick.sourceDepth ?? 0, elevation: pick.sourceElevation };
   });
-  const sourceX = new Map(shots.map((shot) => [shot.id, shot.x]));
+  const shotElevation = new Map(shots.map((shot) => [shot.x.toFixed(6), shot.elevation]));
   const picks = pickSet.picks.map((pick) => ({ shot: pick.shot, receiverX: pick.receiverX, time: pick.time, excluded: pick.excluded }));
   for (const method of ['generalized-reciprocal', 'plus-minus'] as const) {
     const own = sections.filter((entry) => entry.method === method);
@@ -456,22 +490,47 @@ function runForwardCheck(
     const deepest = Math.max(velocities.length, ...own.map((section) => section.refractor));
     // Refractors without a section of their own (no reversed coverage) stand at the survey's plane depth.
     const interfaces: { x: number[]; depth: number[] }[] = [];
+    const referenceInterfaces: ReferenceInterface[] = [];
     const modelVelocities = [velocities[0]!.value];
     let complete = true;
     for (let refractor = 2; refractor <= deepest; refractor += 1) {
       const section = own.find((entry) => entry.refractor === refractor);
       const points = section?.points.filter((point) => point.depthBelowGround !== null) ?? [];
       const planeDepth = plane[refractor - 2];
-      if (points.length > 0) interfaces.push(carriedToShots(points, dipping, refractor - 1, sourceX));
-      else if (planeDepth !== undefined && planeDepth > 0) interfaces.push({ x: [0], depth: [planeDepth] });
-      else if (refractor > 2 && interfaces.length > 0) break; // deeper layers unresolved: the section stops here
+      // The section's own refractor velocity when it rests on enough receivers, else the survey layer's.
+      const ownVelocity = section !== undefined && section.points.length >= MIN_SECTION_POINTS_FOR_VELOCITY ? section.velocity?.value : undefined;
+      const velocity = ownVelocity ?? velocities[refractor - 1]?.value;
+      if (points.length > 0 && velocity !== undefined) {
+        // Beyond the section's ends, to each shot outside it, by that shot's own delay time.
+        const carried = carryToShots(
+          { x: points.map((point) => point.x), depth: points.map((point) => point.depth) },
+          referenceInterfaces,
+          [...modelVelocities, velocity],
+          arrivals.filter((entry) => entry.refractor === refractor),
+        );
+        referenceInterfaces.push(carried.interface);
+        const belowGround = new Map(points.map((point) => [point.x.toFixed(6), point.depthBelowGround as number]));
+        const kept: { x: number; depth: number }[] = [];
+        carried.interface.x.forEach((x, k) => {
+          const key = x.toFixed(6);
+          const fromSection = belowGround.get(key);
+          if (fromSection !== undefined) kept.push({ x, depth: fromSection });
+          else if (datum === null) kept.push({ x, depth: carried.interface.depth[k]! });
+          else {
+            const elevation = shotElevation.get(key);
+            if (elevation !== null && elevation !== undefined) kept.push({ x, depth: carried.interface.depth[k]! - (elevation - datum) });
+          }
+        });
+        interfaces.push({ x: kept.map((entry) => entry.x), depth: kept.map((entry) => entry.depth) });
+      } else if (planeDepth !== undefined && planeDepth > 0) {
+        interfaces.push({ x: [0], depth: [planeDepth] });
+        referenceInterfaces.push({ x: [0], depth: [planeDepth] });
+      } else if (refractor > 2 && interfaces.length > 0) break; // deeper layers unresolved: the section stops here
       else {
         complete = false;
         break;
       }
-      // The section's own refractor velocity when it rests on enough receivers, else the survey layer's.
-      const ownVelocity = section !== undefined && section.points.length >= MIN_SECTION_POINTS_FOR_VELOCITY ? section.velocity?.value : undefined;
-      modelVelocities.push(ownVelocity ?? velocities[refractor - 1]!.value);
+      modelVelocities.push(velocity ?? velocities[refractor - 1]!.value);
     }
     if (!complete) continue;
     // Bounded work on long lines: about FORWARD_CHECK_NODE_BUDGET node visits over all shots.
@@ -479,15 +538,16 @@ function runForwardCheck(
     // The grid's top is flat and the section hangs from it by its depths below the ground: relief
     // enters through the depths (a plane-wave argument, as for the delays), which keeps head-wave
     // times within 0.5 % for ground slopes up to 10 % (tests/model/forward-check.test.ts).
-    const result = forwardCheck({ velocities: modelVelocities, interfaces }, shots, picks, { maxNodes });
+    const result = forwardCheck({ velocities: modelVelocities, interfaces }, shots, picks, { maxNodes, fineness: FORWARD_CHECK_FINENESS });
     const sigmas = pickSet.picks.map((pick) => pick.sigma).filter((sigma): sigma is number => sigma !== null);
-    const allowed = FORWARD_MISFIT_SIGMAS * Math.max(sigmas.length > 0 ? sigmas.reduce((sum, sigma) => sum + sigma, 0) / sigmas.length : 0, timeResolution, result.grid.spacing / modelVelocities[modelVelocities.length - 1]! );
+    const pickSigma = Math.max(sigmas.length > 0 ? sigmas.reduce((sum, sigma) => sum + sigma, 0) / sigmas.length : 0, timeResolution);
+    const allowed = forwardMisfitAllowance(pickSigma, result.grid.spacing, modelVelocities);
     for (const entry of result.perShot) {
       if (entry.rms === null || !(entry.rms > allowed)) continue;
       warnings.push({
         code: 'forward-check-misfit',
         level: 'warning',
-        message: `shot ${entry.shot}: times computed through the ${method === 'plus-minus' ? 'plus-minus' : 'GRM'} depth section miss its picks by ${ms(entry.rms)} RMS (mean ${ms(entry.mean ?? 0)}), more than the ${ms(allowed)} allowed; the section is wrong near this shot (layers it misses, beyond the reversed coverage) or its picks have a timing error`,
+        message: `shot ${entry.shot}: times computed through the ${method === 'plus-minus' ? 'plus-minus' : 'GRM'} depth section miss its picks by ${ms(entry.rms)} RMS (mean ${ms(entry.mean ?? 0)}), more than the ${ms(allowed)} allowed; the section is wrong near this shot (a layer it misses, or the refractor beyond the reversed coverage) or its picks have a timing error — check the shot's time zero, position and reciprocal times first; if they hold, add a shot that reverses the line there`,
         shot: entry.shot,
         details: { rms: entry.rms, mean: entry.mean ?? 0, allowed },
       });

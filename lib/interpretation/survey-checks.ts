@@ -168,7 +168,7 @@ function correctionWarnings({ pickSet }: SurveyCheckInput): InterpretationWarnin
     warnings.push({
       code: 'corrections-not-applied',
       level: 'warning',
-      message: `survey: ${buried.size} shot(s) were buried (source depth or uphole time given: ${[...buried].slice(0, 5).join(', ')}), but the horizontal-layer methods here treat every shot as on the surface, so depths under those shots are measured from the shot, not the ground, and their direct waves need not pass through the origin; correct the times for the shot depth before relying on those depths`,
+      message: `survey: ${buried.size} shot(s) were buried (source depth or uphole time given: ${[...buried].slice(0, 5).join(', ')}), but the horizontal-layer methods here treat every shot as on the surface, so depths under those shots are measured from the shot, not the ground, and their direct waves need not pass through the origin; the delay-time sections (plus-minus, GRM) do bring these shots up to the ground, so rely on those where the line is reversed`,
       details: { buriedShots: buried.size },
     });
   }
@@ -179,7 +179,7 @@ function correctionWarnings({ pickSet }: SurveyCheckInput): InterpretationWarnin
       warnings.push({
         code: 'corrections-not-applied',
         level: 'warning',
-        message: `survey: ground elevations vary by ${formatQuantity(relief, 'm', 3)}, but the horizontal-layer methods here assume a flat surface and apply no elevation correction, so depths are below each shot's ground level and carry an error of up to about that relief; reduce the times to a datum before relying on the depths`,
+        message: `survey: ground elevations vary by ${formatQuantity(relief, 'm', 3)}, but the horizontal-layer methods here assume a flat surface and apply no elevation correction, so depths are below each shot's ground level and carry an error of up to about that relief; the delay-time sections (plus-minus, GRM) refer each depth to its own receiver's ground, or to a datum you give (--datum), so rely on those where the line is reversed`,
         details: { relief },
       });
     }

@@ -124,6 +124,11 @@ export interface ForwardCheckOptions {
   readonly radius?: number;
   /** Largest number of grid nodes columns·rows (default 250 000). */
   readonly maxNodes?: number;
+  /**
+   * Without `spacing`: the default spacing is divided by this (≥ 1, default 1) as far as maxNodes
+   * allows; coarsening back towards the default spacing is silent, beyond it noted.
+   */
+  readonly fineness?: number;
 }
 
 /** The grid the check ran on: nodes at x = originX + column·spacing, z = row·spacing. */
@@ -372,6 +377,10 @@ export function forwardCheck(
   if (options.spacing !== undefined && (!(options.spacing > 0) || !Number.isFinite(options.spacing))) {
     throw new RangeError(`${CALLER}: spacing must be positive and finite (metres), got ${options.spacing}`);
   }
+  const fineness = options.fineness ?? 1;
+  if (!(fineness >= 1) || !Number.isFinite(fineness)) {
+    throw new RangeError(`${CALLER}: fineness must be a finite number ≥ 1 (1 keeps the default spacing), got ${options.fineness}`);
+  }
 
   const shotIndex = new Map<string, number>();
   shots.forEach((shot, index) => {
@@ -424,13 +433,15 @@ export function forwardCheck(
     }
   }
   const requested = spacing;
+  // A refined default grid, coarsened back (towards the default, silently) to fit maxNodes.
+  if (options.spacing === undefined && fineness > 1) spacing /= fineness;
   let nodes = gridFor(spacing, radius, low, high, deepestAt);
   // Nodes fall roughly as 1/h²; a little extra each pass ends the loop in a few passes.
   while (nodes.columns * nodes.rows > maxNodes) {
     spacing *= Math.sqrt((nodes.columns * nodes.rows) / maxNodes) * 1.01;
     nodes = gridFor(spacing, radius, low, high, deepestAt);
   }
-  if (spacing !== requested) {
+  if (spacing > requested * (1 + 1e-9)) {
     notes.push({
       code: 'spacing-coarsened',
       message: `a ${requested.toPrecision(4)} m grid would need more than ${maxNodes} nodes; the spacing was coarsened to ${spacing.toPrecision(4)} m (${nodes.columns} × ${nodes.rows} nodes), so head-wave times may be late by up to about spacing·√(s₁² − s₂²) per refractor; raise maxNodes for a finer check`,
