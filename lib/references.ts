@@ -40,6 +40,19 @@ export const REFERENCES = {
   Johnson1976: 'Johnson S.H. 1976. Interpretation of split-spread refraction data in terms of plane dipping layers. Geophysics 41 (title as recalled; verify).',
   Moser1991: 'Moser T.J. 1991. Shortest path calculation of seismic rays. Geophysics 56.',
   Dijkstra1959: 'Dijkstra E.W. 1959. A note on two problems in connexion with graphs. Numerische Mathematik 1.',
+  ScheideggerWillmore1957: 'Scheidegger A.E., Willmore P.L. 1957. The use of a least squares method for the interpretation of data from seismic surveys. Geophysics 22.',
+  WillmoreBancroft1960: 'Willmore P.L., Bancroft A.M. 1960. The time term approach to refraction seismology. Geophysical Journal of the Royal Astronomical Society 3.',
+  BerryWest1966: 'Berry M.J., West G.F. 1966. A time-term interpretation of the first-arrival data of the 1963 Lake Superior experiment. AGU Geophysical Monograph 10.',
+  Hearn1984: 'Hearn T.M. 1984. Pn travel times in southern California. Journal of Geophysical Research 89.',
+  PaigeSaunders1982: 'Paige C.C., Saunders M.A. 1982. LSQR: an algorithm for sparse linear equations and sparse least squares. ACM Transactions on Mathematical Software 8.',
+  Karney2013: 'Karney C.F.F. 2013. Algorithms for geodesics. Journal of Geodesy 87.',
+  Moritz2000: 'Moritz H. 2000. Geodetic Reference System 1980. Journal of Geodesy 74.',
+  Muller1971: 'Müller G. 1971. Approximate treatment of elastic body waves in media with spherical symmetry. Geophysical Journal of the Royal Astronomical Society 23.',
+  Chapman1973: 'Chapman C.H. 1973. The earth flattening transformation in body wave theory. Geophysical Journal of the Royal Astronomical Society 35.',
+  Biswas1972: 'Biswas N.N. 1972. Earth-flattening procedure for the propagation of Rayleigh wave. Pure and Applied Geophysics 96.',
+  KennettEngdahlBuland1995: 'Kennett B.L.N., Engdahl E.R., Buland R. 1995. Constraints on seismic velocities in the Earth from traveltimes. Geophysical Journal International 122.',
+  DziewonskiAnderson1981: 'Dziewonski A.M., Anderson D.L. 1981. Preliminary reference Earth model. Physics of the Earth and Planetary Interiors 25.',
+  Mooney2002: 'Mooney W.D., Prodehl C., Pavlenkova N.I. 2002. Seismic velocity structure of the continental lithosphere from controlled source data. In: International Handbook of Earthquake and Engineering Seismology, Part A.',
 } as const;
 
 export type ReferenceKey = keyof typeof REFERENCES;
