@@ -56,9 +56,10 @@ export function formatSummary(result: Interpretation): string {
   out.push('LAYERS  (plane horizontal layers; means over the shot sides; ± is one standard error)');
   out.push(
     ...table(
-      ['layer', `velocity ${units.velocity}`, `thickness ${units.distance}`, `top at depth ${units.distance}`, 'shot sides'],
+      ['layer', 'phase', `velocity ${units.velocity}`, `thickness ${units.distance}`, `top at depth ${units.distance}`, 'shot sides'],
       result.layers.map((layer) => [
         String(layer.index),
+        layer.phase,
         plusMinus(layer.velocity, layer.velocitySE, velocityDigits),
         layer.depthToTop === null ? 'not resolved' : layer.thickness === null ? 'half-space' : plusMinus(layer.thickness, layer.thicknessSE, distanceDigits),
         plusMinus(layer.depthToTop, layer.depthToTopSE, distanceDigits),

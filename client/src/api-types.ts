@@ -22,6 +22,8 @@ export interface Provenance {
 
 export interface LayerResult {
   readonly index: number;
+  /** The trade's name of the branch in this layer: "direct wave", "refractor 1"…, or Pg, P*, Pn on crustal surveys. */
+  readonly phase: string;
   readonly velocity: number;
   readonly velocitySE: number;
   readonly thickness: number | null;

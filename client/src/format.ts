@@ -46,8 +46,14 @@ export function sideLabel(side: 'forward' | 'reverse'): string {
   return side === 'forward' ? 'forward' : 'reverse';
 }
 
-/** Branch n in the trade's words: 1 is the direct wave, n ≥ 2 the head wave of refractor n − 1 (top of layer n). */
-export function branchLabel(index: number): string {
+/**
+ * Branch n in the trade's words: the engine's name for layer n when the interpretation has it
+ * ("Pg", "P*", "Pn" on crustal surveys), else 1 is the direct wave and n ≥ 2 the head wave of
+ * refractor n − 1 (top of layer n).
+ */
+export function branchLabel(index: number, layers: readonly { readonly index: number; readonly phase: string }[] = []): string {
+  const named = layers.find((layer) => layer.index === index)?.phase;
+  if (named !== undefined) return named;
   return index === 1 ? 'direct wave' : `refractor ${index - 1}`;
 }
 

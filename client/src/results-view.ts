@@ -35,9 +35,15 @@ function warningList(warnings: readonly WarningResult[]): HTMLUListElement | nul
 }
 
 /** Branch number chip in its plot colour and marker shape name. */
-export function branchChip(index: number): HTMLSpanElement {
+export function branchChip(index: number, label = branchLabel(index)): HTMLSpanElement {
   const style = branchStyle(index);
-  return h('span', { class: 'branch-chip', style: `--branch-color:${style.color};--branch-text:${style.text}`, title: `branch ${index} (${branchLabel(index)}): drawn as ${style.symbol}` }, String(index));
+  return h('span', { class: 'branch-chip', style: `--branch-color:${style.color};--branch-text:${style.text}`, title: `branch ${index} (${label}): drawn as ${style.symbol}` }, String(index));
+}
+
+/** A layer's chip, followed by its phase name on crustal surveys (Pg, P*, Pn). */
+export function layerChip(layer: { readonly index: number; readonly phase: string }, scale: string): (HTMLSpanElement | string)[] {
+  const chip = branchChip(layer.index, layer.phase);
+  return scale === 'crustal' ? [chip, ` ${layer.phase}`] : [chip];
 }
 
 export function layerTable(result: Interpretation): HTMLTableElement {
@@ -46,7 +52,7 @@ export function layerTable(result: Interpretation): HTMLTableElement {
   const rows = result.layers.flatMap((layer) => {
     const warnings = layerWarnings(layer.index);
     const row = h('tr', { 'data-layer': layer.index },
-      h('th', { scope: 'row' }, branchChip(layer.index)),
+      h('th', { scope: 'row' }, ...layerChip(layer, units.scale)),
       h('td', { class: 'number' }, withError(layer.velocity, layer.velocitySE)),
       h('td', { class: 'number' }, layer.thickness === null ? 'half-space' : withError(layer.thickness, layer.thicknessSE)),
       h('td', { class: 'number' }, layer.index === 1 ? '0 (surface)' : withError(layer.depthToTop, layer.depthToTopSE)),

@@ -14,7 +14,7 @@ import { assignmentEdits, breakpointEdits, breakpointsOf, placesByLine, type Ass
 import { h, keepingFocus, replaceChildren } from './dom.js';
 import { branchLabel, plain, withError } from './format.js';
 import { loadPlotly, webglAvailable } from './plotly-loader.js';
-import { branchChip } from './results-view.js';
+import { branchChip, layerChip } from './results-view.js';
 import { travelTimeFigure, type TravelTimeOptions } from './travel-time-figure.js';
 
 export interface EditState {
@@ -236,7 +236,8 @@ export class TravelTimeView {
     const disabled = count === 0 || this.busy;
     const assignButton = (assign: Assignment, label: Node | string, title: string) =>
       h('button', { type: 'button', disabled, title, 'data-assign': String(assign), onclick: () => void this.assignSelection(assign) }, label);
-    const branchButtons = this.branchNumbers().map((index) => assignButton(index, h('span', {}, branchChip(index), ` ${branchLabel(index)}`), `Put the selected picks on branch ${index}, the ${branchLabel(index)} (key ${index})`));
+    const layers = this.result?.layers ?? [];
+    const branchButtons = this.branchNumbers().map((index) => assignButton(index, h('span', {}, branchChip(index, branchLabel(index, layers)), ` ${branchLabel(index, layers)}`), `Put the selected picks on branch ${index}, the ${branchLabel(index, layers)} (key ${index})`));
     const undoLabel = this.hooks.undoLabel();
     const undo = h('button', { type: 'button', id: 'undo-edit', disabled: undoLabel === null || this.busy, title: undoLabel ? `Undo: ${undoLabel} (Ctrl+Z)` : 'Nothing to undo', onclick: () => void this.runUndo() },
       undoLabel ? `Undo ${undoLabel}` : 'Undo');
@@ -274,7 +275,7 @@ export class TravelTimeView {
       h('caption', {}, 'Layers'),
       h('thead', {}, h('tr', {}, h('th', { scope: 'col' }, 'Layer'), h('th', { scope: 'col' }, units.velocity), h('th', { scope: 'col' }, `top (${units.distance})`))),
       h('tbody', {}, ...result.layers.map((layer) => h('tr', {},
-        h('th', { scope: 'row' }, branchChip(layer.index)),
+        h('th', { scope: 'row' }, ...layerChip(layer, units.scale)),
         h('td', { class: 'number' }, withError(layer.velocity, layer.velocitySE)),
         h('td', { class: 'number' }, layer.index === 1 ? '0' : withError(layer.depthToTop, layer.depthToTopSE)),
       ))),

@@ -60,7 +60,7 @@ export const WARNING_CODES = {
   'datum-above-ground': 'The datum lies above some source or receiver end; it should lie below every one.',
   'datum-too-low': "A side's datum correction exceeds half its corrected intercept time: the datum reaches below the near-surface layer.",
   'shot-below-layer': 'A buried shot lies below the base of layer 1 (or below a refractor), where the near-surface correction does not hold.',
-  'forward-check-misfit': 'The travel times computed through the interpreted depth section miss this shot\'s or receiver\'s picks by more than their uncertainty.',
+  'forward-check-misfit': 'The travel times computed through the interpreted depth section miss this shot\'s picks by more than their uncertainty and the grid\'s own error allow.',
   // --- forward model
   'model-misfit': 'The interpreted model explains this shot worse than the picks\' uncertainty.',
   // --- the survey as a whole

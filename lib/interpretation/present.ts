@@ -14,6 +14,7 @@ import { STANDING_CAUTIONS, HORIZONTAL_LAYER_ASSUMPTION, DELAY_TIME_ASSUMPTION }
 import { FORWARD_CHECK_REFERENCES } from '../model/forward-check.js';
 import type { DelayMethod } from './reversed-profile.js';
 import { thicknessesFromDepths } from './survey-layers.js';
+import { phaseNames } from './phase-names.js';
 import type { BranchResult, Interpretation, LayerResult, RefractorResult, ShotSideResult } from './shape.js';
 
 export interface PresentOptions {
@@ -52,6 +53,7 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
   // seen beyond it has a velocity but no depth (the warnings say why).
   const resolved = result.model?.velocities.length ?? 0;
   const layers: LayerResult[] = [];
+  const phases = phaseNames(combined.slownesses.map((entry) => (entry !== null && entry.value > 0 ? 1 / entry.value : Number.NaN)), units.scale);
   combined.slownesses.forEach((entry, k) => {
     if (entry === null || !(entry.value > 0)) return;
     const index = k + 1;
@@ -61,6 +63,7 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
     const depthToTopSE = k === 0 ? 0 : Math.sqrt(combined.depthCovariance[k - 1]?.[k - 1] ?? Number.NaN);
     layers.push({
       index,
+      phase: phases[k]!,
       velocity: velocity(1 / entry.value),
       velocitySE: velocity(entry.standardError / (entry.value * entry.value)),
       thickness: hasThickness ? distance(thicknesses[k] ?? Number.NaN) : null,

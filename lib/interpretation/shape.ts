@@ -31,6 +31,8 @@ export const ProvenanceSchema = z.strictObject({
 export const LayerSchema = z.strictObject({
   /** 1 = top layer; the last layer is the half-space (no thickness). */
   index: z.number().int().min(1),
+  /** The branch that travels in this layer in the trade's words: engineering "direct wave", "refractor 1"…; crustal "Pg", "P*", "Pn" (phase-names.ts). */
+  phase: z.string(),
   velocity: num,
   velocitySE: num,
   /** null for the half-space. */
