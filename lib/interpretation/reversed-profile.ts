@@ -120,6 +120,14 @@ export const MIN_FORWARD_CHECK_NODES = 5_000;
 /** The forward check's default grid refined this many times where the node budget allows (less grid lateness to allow for). */
 export const FORWARD_CHECK_FINENESS = 4;
 
+/** Mean sigma of the corrected head-wave arrivals of every side (0 when there are none). */
+function meanArrivalSigma(arrivals: readonly SideRefractorArrivals[]): number {
+  let sum = 0;
+  let count = 0;
+  for (const side of arrivals) for (const sigma of side.sigmas) { sum += sigma; count += 1; }
+  return count > 0 ? sum / count : 0;
+}
+
 /** Fewest receivers under which a section's own refractor velocity is used in the forward check (common practice). */
 export const MIN_SECTION_POINTS_FOR_VELOCITY = 8;
 
@@ -518,7 +526,7 @@ function runForwardCheck(
           else if (datum === null) kept.push({ x, depth: carried.interface.depth[k]! });
           else {
             const elevation = shotElevation.get(key);
-            if (elevation !== null && elevation !== undefined) kept.push({ x, depth: carried.interface.depth[k]! - (elevation - datum) });
+            if (elevation !== null && elevation !== undefined) kept.push({ x, depth: carried.interface.depth[k]! + (elevation - datum) });
           }
         });
         interfaces.push({ x: kept.map((entry) => entry.x), depth: kept.map((entry) => entry.depth) });
@@ -540,7 +548,10 @@ function runForwardCheck(
     // times within 0.5 % for ground slopes up to 10 % (tests/model/forward-check.test.ts).
     const result = forwardCheck({ velocities: modelVelocities, interfaces }, shots, picks, { maxNodes, fineness: FORWARD_CHECK_FINENESS });
     const sigmas = pickSet.picks.map((pick) => pick.sigma).filter((sigma): sigma is number => sigma !== null);
-    const pickSigma = Math.max(sigmas.length > 0 ? sigmas.reduce((sum, sigma) => sum + sigma, 0) / sigmas.length : 0, timeResolution);
+    // Picks with sigmas are judged by them; a table without sigmas by the scatter of the head-wave
+    // picks about their neighbours' chords (the arrivals' sigmas, refractor-arrivals.ts), which an
+    // undulating refractor does not inflate as it does a straight branch line; at least the resolution.
+    const pickSigma = Math.max(sigmas.length > 0 ? sigmas.reduce((sum, sigma) => sum + sigma, 0) / sigmas.length : meanArrivalSigma(arrivals), timeResolution);
     const allowed = forwardMisfitAllowance(pickSigma, result.grid.spacing, modelVelocities);
     for (const entry of result.perShot) {
       if (entry.rms === null || !(entry.rms > allowed)) continue;

@@ -14,46 +14,12 @@
  *   plane refractor whatever the ground between the ends.
  */
 import { describe, expect, it } from 'vitest';
-import { readPickTable } from '../../lib/picks/index.js';
-import { interpret, type InterpretOptions } from '../../lib/interpret.js';
-import { InterpretationSchema, type Interpretation, type RefractorResult } from '../../lib/interpretation/shape.js';
+import type { Interpretation, RefractorResult } from '../../lib/interpretation/shape.js';
 import { seededNormal } from '../../lib/random.js';
 import { dippingHeadWaveTime, type DippingModel } from '../oracles/dipping-refractor.js';
 import { gridFirstArrivals } from '../oracles/grid-first-arrivals.js';
 import { range } from '../helpers/synthetic-survey.js';
-
-interface Row {
-  readonly shot: string;
-  readonly sourceX: number;
-  readonly receiverX: number;
-  /** s */
-  readonly time: number;
-  readonly sourceElevation?: number;
-  readonly receiverElevation?: number;
-  readonly sourceDepth?: number;
-  readonly uphole?: number;
-}
-
-function run(rows: readonly Row[], options: InterpretOptions = {}): Interpretation {
-  const extra = rows.some((row) => row.sourceElevation !== undefined);
-  const buried = rows.some((row) => row.sourceDepth !== undefined);
-  const header = ['shot', 'source_x_m', 'receiver_x_m', 'time_ms', ...(extra ? ['source_elev_m', 'receiver_elev_m'] : []), ...(buried ? ['source_depth_m', 'uphole_ms'] : [])];
-  const lines = rows.map((row) =>
-    [
-      row.shot,
-      row.sourceX,
-      row.receiverX,
-      (row.time * 1000).toFixed(4),
-      ...(extra ? [row.sourceElevation ?? '', row.receiverElevation ?? ''] : []),
-      ...(buried ? [row.sourceDepth ?? 0, row.uphole === undefined ? '' : (row.uphole * 1000).toFixed(4)] : []),
-    ].join(','),
-  );
-  const outcome = readPickTable([header.join(','), ...lines].join('\n'));
-  if (!outcome.ok) throw new Error(outcome.problems.map((problem) => problem.message).join('; '));
-  const result = interpret(outcome.value, options);
-  InterpretationSchema.parse(result);
-  return result;
-}
+import { run, type Row } from '../helpers/pick-rows.js';
 
 const section = (result: Interpretation, method: 'plus-minus' | 'generalized', iface = 1): RefractorResult => {
   const found = result.refractors.find((refractor) => refractor.interface === iface && refractor.method.startsWith(method));

@@ -341,3 +341,92 @@ describe('forwardCheck: ground relief carried by depths below the ground', () =>
     });
   }
 });
+
+describe('forwardCheck: the fineness option (the default spacing refined where maxNodes allows)', () => {
+  // METHODS 12.1: 500/2000 m/s over 10 m, surface shot at x = 0, receivers at 10 … 100 m; the analytic
+  // first arrivals published with the check case (ms), computed there from the stated model.
+  const receivers121 = [10, 20, 30, 40, 60, 80, 100];
+  const analytic121 = [20.0, 40.0, 53.7298, 58.7298, 68.7298, 78.7298, 88.7298].map((ms) => ms / 1000);
+  const shot121 = surfaceShots([0]);
+  const picks121: ForwardCheckPick[] = receivers121.map((receiverX, index) => ({ shot: 'S1', receiverX, time: analytic121[index] as number }));
+  // METHODS 12.1 prints 1e-4 ms: half a unit of the last digit.
+  const PRINTED = 0.5e-7;
+  // The line of the 12.1 describe above: shots at 0, 50, 100 m, receivers every 5 m; default spacing 1.25 m (worked there by hand).
+  const shots = surfaceShots([0, 50, 100]);
+  const picks = picksFor(shots, range(21, 0, 5), closedForm(CASE_12_1));
+
+  it('the METHODS 12.1 analytic times are the closed form (Telford et al. 1990 ch. 4) the fineness checks below lean on', () => {
+    receivers121.forEach((receiverX, index) => expectWithin(firstArrival(CASE_12_1, receiverX).time, analytic121[index] as number, PRINTED, `METHODS 12.1 at ${receiverX} m`));
+  });
+
+  it('forwardCheck with fineness 4 runs on the default spacing / 4 (1.25 m → 0.3125 m) when maxNodes allows, with no note', () => {
+    const coarse = forwardCheck(case121Section(10), shots, picks);
+    const fine = forwardCheck(case121Section(10), shots, picks, { fineness: 4 });
+    expect(coarse.grid.spacing).toBe(1.25);
+    expect(fine.grid.spacing).toBe(1.25 / 4);
+    // The module's margins worked by hand at 0.3125 m: (100 + 2·6·0.3125) / 0.3125 + 1 columns, (10 + 6·0.3125) / 0.3125 + 1 rows.
+    expect(fine.grid.columns).toBe(333);
+    expect(fine.grid.rows).toBe(39);
+    expect(fine.notes).toEqual([]);
+    // fineness 1 is the default.
+    expect(forwardCheck(case121Section(10), shots, picks, { fineness: 1 }).grid).toEqual(coarse.grid);
+  });
+
+  it('forwardCheck coarsens a refined grid to fit maxNodes without a spacing-coarsened note while it stays at or below the default spacing', () => {
+    // 5 000 nodes: more than the default grid's 93 × 15 = 1 395, fewer than the refined 333 × 39 = 12 987.
+    const squeezed = forwardCheck(case121Section(10), shots, picks, { fineness: 4, maxNodes: 5000 });
+    expect(squeezed.grid.columns * squeezed.grid.rows).toBeLessThanOrEqual(5000);
+    expect(squeezed.grid.spacing).toBeGreaterThan(0.3125);
+    expect(squeezed.grid.spacing).toBeLessThanOrEqual(1.25);
+    expect(squeezed.notes).toEqual([]);
+    // Below the default grid's own size the spacing passes the default: then it is noted, naming the default spacing.
+    const tight = forwardCheck(case121Section(10), shots, picks, { fineness: 4, maxNodes: 1000 });
+    expect(tight.grid.spacing).toBeGreaterThan(1.25);
+    expect(tight.notes.map((note) => note.code)).toEqual(['spacing-coarsened']);
+    expect(tight.notes[0]?.message).toContain('a 1.250 m grid');
+  });
+
+  it('forwardCheck leaves a spacing given by the caller alone whatever the fineness', () => {
+    expect(forwardCheck(case121Section(10), shots, picks, { spacing: 0.5, fineness: 4 }).grid.spacing).toBe(0.5);
+  });
+
+  it('forwardCheck throws a RangeError for a fineness below 1, NaN or infinite', () => {
+    for (const fineness of [0.5, 0, -2, 0.999, Number.NaN, Number.POSITIVE_INFINITY]) {
+      expect(() => forwardCheck(case121Section(10), shots, picks, { fineness }), `fineness ${fineness}`).toThrow(RangeError);
+      expect(() => forwardCheck(case121Section(10), shots, picks, { fineness }), `fineness ${fineness}`).toThrow(/fineness must be a finite number ≥ 1/);
+    }
+  });
+
+  it('forwardCheck with fineness 4 is at least as accurate on METHODS 12.1, both within 0.1 % of the analytic times', () => {
+    const largestError = (options: ForwardCheckOptions) => {
+      const check = forwardCheck(case121Section(10), shot121, picks121, options);
+      return Math.max(...analytic121.map((time, index) => Math.abs((check.calculated[index] as number) - time)));
+    };
+    const byDefault = largestError({});
+    const refined = largestError({ fineness: 4 });
+    // METHODS 12.1's suggested tolerance for shortest path with r ≥ 5: 0.1 % (largest analytic time 88.7 ms).
+    expect(byDefault).toBeLessThan(0.001 * 0.0887298);
+    expect(refined).toBeLessThan(0.001 * 0.0887298);
+    // The interface lies on a node row of both grids (10 m = 8 × 1.25 m = 32 × 0.3125 m), so what error is
+    // left is the star's angular gaps, which do not scale with h (measured 0.00126 ms on both grids, as
+    // METHODS 12.1 reports for r = 5): the refined grid must not be worse (rounding slack 1e-12 s).
+    expect(refined, `largest error ${byDefault} s by default, ${refined} s with fineness 4`).toBeLessThanOrEqual(byDefault + 1e-12);
+  });
+
+  it('forwardCheck with fineness 4 at least halves the largest error on the dipping refractor of METHODS 5.1 (refinement, METHODS §12)', () => {
+    // METHODS §12: halving h should roughly halve a first-order error; here h falls to a quarter.
+    const dippingModel: DippingModel = { velocities: [600, 2400], interfaces: [{ depthAtOrigin: 8, dip: 6 * DEGREE }] };
+    const section: DepthSection = { velocities: [600, 2400], interfaces: [{ x: [0, 120], depth: [8, 8 + 120 * Math.tan(6 * DEGREE)] }] };
+    const dippingShots = surfaceShots([0, 60, 120]);
+    const fermat = (shot: ForwardCheckShot, receiverX: number): number =>
+      Math.min(Math.abs(receiverX - shot.x) / 600, dippingHeadWaveTime(dippingModel, 1, shot.x, receiverX) ?? Number.POSITIVE_INFINITY);
+    const dippingPicks = picksFor(dippingShots, range(25, 0, 5), fermat);
+    const largestRelative = (options: ForwardCheckOptions) => {
+      const check = forwardCheck(section, dippingShots, dippingPicks, options);
+      return Math.max(...dippingPicks.map((pick, index) => Math.abs(check.residuals[index] as number) / pick.time));
+    };
+    const byDefault = largestRelative({});
+    const refined = largestRelative({ fineness: 4 });
+    expect(refined, `largest relative error ${byDefault} by default, ${refined} with fineness 4`).toBeLessThan(byDefault / 2);
+  });
+});
