@@ -41,3 +41,14 @@ export {
 export { delayToDepth, planeLayerOptimumXY, steepRefractorNote, type DelayDepth, type Overburden, type RefractorArrivals, type ReversedArrivals } from './delay-depth.js';
 export { commonReceivers, plusMinus, type PlusMinusNote, type PlusMinusReceiver, type PlusMinusResult } from './plus-minus.js';
 export { generalizedReciprocal, type GrmNote, type GrmOptions, type GrmReceiver, type GrmResult, type GrmScanRow } from './generalized-reciprocal.js';
+
+// Curvature-corrected layer fit (spherical shells, Levenberg–Marquardt) and the bias of a flat-earth reading of the same data.
+export {
+  fitSphericalLayers,
+  predictedFlatBias,
+  type FlatBias,
+  type SphericalFit,
+  type SphericalFitNote,
+  type SphericalFitOptions,
+  type SphericalPick,
+} from './spherical-fit.js';

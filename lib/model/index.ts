@@ -45,3 +45,35 @@ export {
   type SectionInterface,
   type ShotResiduals,
 } from './forward-check.js';
+
+// Earth flattening (Müller 1971; Chapman 1973): sphere ↔ flat depths, velocities and distances.
+export {
+  EARTH_MEAN_RADIUS,
+  flattenDepth,
+  flattenedDistance,
+  flattenVelocity,
+  unflattenDepth,
+  unflattenLayers,
+  unflattenVelocity,
+  type UnflattenedLayer,
+} from './earth-flattening.js';
+
+// Constant-velocity shells in a sphere: direct, turning-chord and interface-arc times, and the flat-earth error.
+export {
+  flatEarthError,
+  flatErrorOffset,
+  sphericalBranchExists,
+  sphericalBranchTime,
+  sphericalBranchTimes,
+  sphericalCriticalDistance,
+  sphericalFirstArrival,
+  sphericalMaximumDistance,
+  sphericalSyntheticTimes,
+  sphericalTimeDerivatives,
+  type FlatEarthError,
+  type FlatErrorOffsetOptions,
+  type RefractedRay,
+  type SphericalModel,
+  type SphericalOptions,
+  type SphericalTimeDerivatives,
+} from './spherical-earth.js';
