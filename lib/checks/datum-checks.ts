@@ -53,15 +53,15 @@ export function datumWarnings(pickSet: PickSet, datum: number, gaps: ElevationGa
   const warnings: InterpretationWarning[] = [];
   if (gaps.shots.size > 0 || gaps.receivers.size > 0) {
     const parts: string[] = [];
-    if (gaps.shots.size > 0) parts.push(`shot${gaps.shots.size > 1 ? 's' : ''} ${listed([...gaps.shots])} (source_elev_m blank)`);
+    if (gaps.shots.size > 0) parts.push(`shot${gaps.shots.size > 1 ? 's' : ''} ${listed([...gaps.shots])} (source elevation blank)`);
     if (gaps.receivers.size > 0) {
       const positions = [...gaps.receivers].map(Number).sort((left, right) => left - right);
-      parts.push(`${positions.length} receiver position${positions.length > 1 ? 's' : ''} at x = ${listed(positions.map((x) => m(x)))} (receiver_elev_m blank)`);
+      parts.push(`${positions.length} receiver position${positions.length > 1 ? 's' : ''} at x = ${listed(positions.map((x) => m(x)))} (receiver elevation blank)`);
     }
     warnings.push({
       code: 'elevation-missing',
       level: 'warning',
-      message: `datum at ${m(datum)}: ${parts.join(' and ')} have no ground elevation, so their picks cannot be lowered to the datum and are left out of the delay-time depths; fill in the elevation cells (any length unit, e.g. source_elev_m, receiver_elev_ft) or drop the datum to refer depths to the ground`,
+      message: `datum at ${m(datum)}: ${parts.join(' and ')} ${parts.length === 1 && /^(1 |shot )/.test(parts[0]!) ? 'has' : 'have'} no ground elevation, so their picks cannot be lowered to the datum and are left out of the delay-time depths; fill in the elevation cells (any length unit, e.g. source_elev_m, receiver_elev_ft) or drop the datum to refer depths to the ground`,
       details: { shots: gaps.shots.size, receivers: gaps.receivers.size },
     });
   }
@@ -93,20 +93,28 @@ export function datumWarnings(pickSet: PickSet, datum: number, gaps: ElevationGa
   return warnings;
 }
 
-/** `datum-too-low` for each side whose total datum correction exceeds half its corrected intercept time. */
+/**
+ * `datum-too-low` for each side where one end's datum correction (the shot's, or the largest
+ * receiver's) exceeds half its corrected intercept time (METHODS §8: "warn if a correction exceeds
+ * half the corrected intercept"): on flat ground, a datum below the middle of the top layer. A
+ * corrected intercept at or below zero means the datum lies at or below the refractor itself.
+ */
 export function datumDepthWarnings(arrivals: readonly SideRefractorArrivals[], datum: number): InterpretationWarning[] {
   const warnings: InterpretationWarning[] = [];
   for (const side of arrivals) {
-    const total = Math.abs(side.sourceCorrection) + side.largestReceiverCorrection;
-    if (!datumTooLow(total, side.line.intercept)) continue;
+    const largest = Math.max(Math.abs(side.sourceCorrection), side.largestReceiverCorrection);
+    if (!datumTooLow(largest, side.line.intercept)) continue;
+    const below = !(side.line.intercept > 0);
     warnings.push({
       code: 'datum-too-low',
       level: 'warning',
-      message: `shot ${side.shot}, ${side.side} side, refractor ${side.refractor}: lowering the ends to the datum at ${m(datum)} removes up to ${formatQuantity(total * 1000, 'ms', 3)}, more than half the corrected intercept time (${formatQuantity(side.line.intercept * 1000, 'ms', 3)}); the datum reaches down to the refractor or below the near-surface layer — choose a higher datum (within the top layer) or refer depths to the ground`,
+      message: below
+        ? `shot ${side.shot}, ${side.side} side, refractor ${side.refractor}: the datum at ${m(datum)} lies at or below the refractor (the intercept time corrected to it is ${formatQuantity(side.line.intercept * 1000, 'ms', 3)}) — choose a datum within the top layer, or refer depths to the ground`
+        : `shot ${side.shot}, ${side.side} side, refractor ${side.refractor}: lowering one end to the datum at ${m(datum)} removes up to ${formatQuantity(largest * 1000, 'ms', 3)}, more than half the corrected intercept time (${formatQuantity(side.line.intercept * 1000, 'ms', 3)}); the datum lies deep in the near-surface layer, where its velocity matters most — choose a higher datum or refer depths to the ground`,
       shot: side.shot,
       side: side.side,
       layer: side.refractor,
-      details: { correction: total, correctedIntercept: side.line.intercept },
+      details: { correction: largest, correctedIntercept: side.line.intercept },
     });
   }
   return warnings;

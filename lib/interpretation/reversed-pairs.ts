@@ -22,6 +22,7 @@
  * a 3 ms time-zero error on picks of 0.3 ms is still flagged several times over). When only one is
  * read the pair uses it unchecked.
  */
+import { formatQuantity } from '../checks/wording.js';
 import type { Estimate } from '../depth/dipping-layer.js';
 import { reciprocalTimeCheck, type ReciprocalTimeCheck } from '../depth/dipping-layer.js';
 import { linearLeastSquares } from '../stats/linear-least-squares.js';
@@ -218,7 +219,7 @@ export function reversedPairs(
           reason:
             forwardX === reverseX
               ? `both shots are at x = ${forwardX} m; a reversed pair needs shots at the two ends of the common receivers`
-              : `the order is wrong: the first shot of a pair is the one at the smaller x (${choice.forwardShot} is at ${forwardX} m, ${choice.reverseShot} at ${reverseX} m) — name it ${choice.reverseShot}:${choice.forwardShot}`,
+              : `the order is wrong: the first shot of a pair is the one at the smaller x (${choice.forwardShot} is at ${formatQuantity(forwardX, 'm', 6)}, ${choice.reverseShot} at ${formatQuantity(reverseX, 'm', 6)}) — name it ${choice.reverseShot}:${choice.forwardShot} (forward shot ${choice.reverseShot}, reverse shot ${choice.forwardShot})`,
         });
         continue;
       }
