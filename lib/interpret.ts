@@ -34,6 +34,8 @@ import { branchWarnings } from './checks/branch-checks.js';
 import { surveyWarnings, sideWarnings } from './interpretation/survey-checks.js';
 import { forwardResiduals, type ForwardResiduals } from './interpretation/residuals.js';
 import { shapeInterpretation } from './interpretation/present.js';
+import { placeOnLine, type LinePlacement } from './geodesy/place-on-line.js';
+import { earthCurvature, type EarthCurvature, type EarthModelChoice } from './interpretation/earth-curvature.js';
 import type { Interpretation } from './interpretation/shape.js';
 import type { LayeredModel } from './model/layered-model.js';
 
@@ -60,6 +62,8 @@ export interface InterpretOptions {
   readonly datumElevation?: number | null;
   /** Run the grid forward check of the depth section. Default true. */
   readonly forwardCheck?: boolean;
+  /** Earth model for the layer depths: `auto` (default: a sphere where offsets are long enough for curvature to matter), `flat` or `spherical`. */
+  readonly earthModel?: EarthModelChoice;
 }
 
 export const DEFAULT_OPTIONS = {
@@ -71,6 +75,7 @@ export const DEFAULT_OPTIONS = {
   reversedPairs: null as readonly PairChoice[] | null,
   datumElevation: null as number | null,
   forwardCheck: true,
+  earthModel: 'auto' as EarthModelChoice,
 };
 
 /** Time resolution assumed for picks of each scale of table (s): 0.1 ms engineering, 10 ms crustal (common practice). */
@@ -107,13 +112,21 @@ export interface SurveyResult {
   readonly refractorTests: readonly RefractorMerge[];
   /** Pairs, dipping layers and depths under every receiver (`reversed-profile.ts`). */
   readonly reversed: ReversedProfile;
+  /** Flat or spherical earth, and the layers refit in a sphere where curvature matters (`earth-curvature.ts`). */
+  readonly curvature: EarthCurvature | null;
+  /** Where a geographic table's shots and stations lie on its profile line; null for a table along a line. */
+  readonly placement: LinePlacement | null;
   readonly warnings: readonly InterpretationWarning[];
 }
 
 export function interpret(pickSet: PickSet, options: InterpretOptions = {}): Interpretation {
   const settings = { ...DEFAULT_OPTIONS, ...definedOnly(options) };
   const scale = options.scale ?? pickSet.suggestedScale;
-  const result = interpretSurvey(pickSet, { ...settings, scale });
+  // Geographic tables: shots and stations placed on the best-fitting profile line, every offset the
+  // true geodesic distance (`geodesy/place-on-line.ts`); the rest of the pipeline works along it.
+  const placement = pickSet.coordinateSystem === 'geographic' ? placeOnLine(pickSet) : null;
+  const surveyed = interpretSurvey(placement?.pickSet ?? pickSet, { ...settings, scale });
+  const result: SurveyResult = placement === null ? surveyed : { ...surveyed, placement, warnings: [...placement.warnings, ...surveyed.warnings] };
   return shapeInterpretation(result, {
     units: DISPLAY_UNITS[scale],
     options: settings,
@@ -185,7 +198,9 @@ export function interpretSurvey(
     forwardCheck: settings.forwardCheck,
   });
   warnings.push(...reversed.warnings);
-  return { pickSet, sides, combined, model, residuals, refractorTests: identity.tests, reversed, warnings };
+  const curvature = earthCurvature(segmentations, model, settings.earthModel, timeResolution);
+  if (curvature) warnings.push(...curvature.warnings);
+  return { pickSet, sides, combined, model, residuals, refractorTests: identity.tests, reversed, curvature, placement: null, warnings };
 }
 
 /** One `branches-one-refractor` warning per branch split undone, naming the pairs and where the split lay. */

@@ -4,7 +4,7 @@
  *
  *   slopebreak interpret FILE [--json] [--robust | --fit METHOD] [--bootstrap N] [--seed S]
  *                             [--scale engineering|crustal] [--pair A:B]... [--datum ELEV]
- *                             [--no-forward-check]
+ *                             [--no-forward-check] [--earth auto|flat|spherical]
  *   slopebreak schema            print the JSON Schema of the interpretation
  *   slopebreak --help | --version
  *
@@ -52,6 +52,8 @@ interpret options:
   --datum ELEV           refer depths under the receivers to a flat datum at ELEV metres
                          (needs source and receiver elevations in the table)
   --no-forward-check     skip the grid forward check of the depth section
+  --earth MODEL          auto (default: a spherical earth where the offsets are long enough for
+                         curvature to matter), flat or spherical
 
 serve options:
   --host H               interface to listen on (default 127.0.0.1; 0.0.0.0 opens it to the office network)
@@ -89,6 +91,7 @@ function runInterpret(args: readonly string[]): number {
       pair: { type: 'string', multiple: true },
       datum: { type: 'string' },
       'no-forward-check': { type: 'boolean' },
+      earth: { type: 'string' },
     },
   });
   if (positionals.length !== 1) throw new UsageError('interpret takes exactly one pick-table file');
@@ -114,6 +117,10 @@ function runInterpret(args: readonly string[]): number {
   }
   if (values.scale !== undefined && values.scale !== 'engineering' && values.scale !== 'crustal') {
     throw new UsageError(`--scale takes engineering or crustal, got "${values.scale}"`);
+  }
+  const earthModels = ['auto', 'flat', 'spherical'] as const;
+  if (values.earth !== undefined && !earthModels.includes(values.earth as (typeof earthModels)[number])) {
+    throw new UsageError(`--earth takes auto, flat or spherical, got "${values.earth}"`);
   }
   const fitMethod: FitMethod = values.robust ? 'huber' : ((values.fit as FitMethod | undefined) ?? 'least-squares');
   const bootstrapReplicates = positiveInteger(values.bootstrap, '--bootstrap', 1) ?? 0;
@@ -148,6 +155,7 @@ function runInterpret(args: readonly string[]): number {
     reversedPairs: reversedPairs ?? null,
     datumElevation: datumElevation ?? null,
     forwardCheck: !values['no-forward-check'],
+    earthModel: values.earth as (typeof earthModels)[number] | undefined,
     sourceName: basename(file),
     softwareVersion: softwareVersion(),
   });

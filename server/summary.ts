@@ -67,6 +67,7 @@ export function formatSummary(result: Interpretation): string {
       ]),
     ),
   );
+  out.push(...earthCurvatureLines(result, { distanceDigits, timeDigits, velocityDigits }));
   out.push('');
   out.push(`DEPTH BELOW EACH SHOT  (${units.distance}; interface k = top of layer k+1)`);
   const depthRows: string[][] = [];
@@ -122,6 +123,42 @@ export function formatSummary(result: Interpretation): string {
     out.push(...wrap(`* ${caution}`, '  ').map((line, k) => (k === 0 ? line : `    ${line.trimStart()}`)));
   }
   return out.join('\n') + '\n';
+}
+
+/** The earth-curvature block: the flat-earth limit, and the sphere-fitted layers with the flat reading's bias. */
+function earthCurvatureLines(result: Interpretation, digits: Digits): string[] {
+  const curvature = result.earthCurvature;
+  if (!curvature) return [];
+  const { units } = result;
+  const out: string[] = [''];
+  out.push(`EARTH CURVATURE  ${curvature.applied ? 'spherical earth' : 'flat earth'} (asked: ${curvature.choice})`);
+  out.push(...wrap(curvature.reason, '  '));
+  out.push(
+    ...wrap(
+      `flat-earth error of the deepest branch: ${fixed(curvature.flatErrorAtMaxOffset, digits.timeDigits)} ${units.time} at the longest offset ${fixed(curvature.maxOffset, digits.distanceDigits)} ${units.distance}; ` +
+        (curvature.flatErrorOffset === null ? 'within the pick sigma at every offset' : `passes the pick sigma ${fixed(curvature.pickSigma, digits.timeDigits)} ${units.time} at ${fixed(curvature.flatErrorOffset, digits.distanceDigits)} ${units.distance}`),
+      '  ',
+    ),
+  );
+  if (curvature.sphericalLayers.length > 0) {
+    out.push(`  layers refit in a sphere of radius ${fixed(curvature.radius, 1)} ${units.distance}${curvature.applied ? ' (use these)' : ' (for comparison; not applied)'}:`);
+    out.push(
+      ...table(
+        ['layer', 'phase', `velocity ${units.velocity}`, `thickness ${units.distance}`, `top at depth ${units.distance}`, `flat − sphere ${units.velocity}`, `flat − sphere ${units.distance}`],
+        curvature.sphericalLayers.map((layer, k) => [
+          String(layer.index),
+          layer.phase,
+          plusMinus(layer.velocity, layer.velocitySE, digits.velocityDigits + 1),
+          layer.thickness === null ? 'half-space' : plusMinus(layer.thickness, layer.thicknessSE, digits.distanceDigits),
+          plusMinus(layer.depthToTop, layer.depthToTopSE, digits.distanceDigits),
+          fixed(curvature.flatBias?.velocity[k] ?? null, digits.velocityDigits + 1),
+          k === 0 ? '—' : fixed(curvature.flatBias?.depth[k - 1] ?? null, digits.distanceDigits + 1),
+        ]),
+      ).map((line) => `  ${line}`),
+    );
+    if (curvature.fit) out.push(`  sphere fit: ${curvature.fit.pickCount} picks, RMS ${fixed(curvature.fit.rms, digits.timeDigits)} ${units.time}, ${curvature.fit.iterations} iterations${curvature.fit.converged ? '' : ', NOT converged'}`);
+  }
+  return out;
 }
 
 interface Digits {

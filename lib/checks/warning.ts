@@ -61,6 +61,12 @@ export const WARNING_CODES = {
   'datum-too-low': "A side's datum correction exceeds half its corrected intercept time: the datum reaches below the near-surface layer.",
   'shot-below-layer': 'A buried shot lies below the base of layer 1 (or below a refractor), where the near-surface correction does not hold.',
   'forward-check-misfit': 'The travel times computed through the interpreted depth section miss this shot\'s picks by more than their uncertainty and the grid\'s own error allow.',
+  // --- crustal profiles
+  'station-off-line': 'A station or shot lies far off the best-fitting profile line: along-line positions are projections, the offsets are the true geodesic distances.',
+  'earth-curvature-applied': 'The offsets are long enough for a flat earth to err by more than the picks allow; the layers were refit in a sphere, and the bias of the flat reading is stated.',
+  'flat-earth-bias': 'A flat earth was asked for on offsets where it errs by more than the picks allow; the flat reading carries the bias stated.',
+  'earth-curvature-not-applied': 'The layers could not be refit in a sphere; the flat-earth reading stands although the offsets ask for the correction.',
+  'time-term-note': 'The time-term inversion reported a limitation: rejected picks, a disconnected shot–station graph, a one-sided geometry or a station with too few picks.',
   // --- forward model
   'model-misfit': 'The interpreted model explains this shot worse than the picks\' uncertainty.',
   // --- the survey as a whole

@@ -15,6 +15,7 @@ import { FORWARD_CHECK_REFERENCES } from '../model/forward-check.js';
 import type { DelayMethod } from './reversed-profile.js';
 import { thicknessesFromDepths } from './survey-layers.js';
 import { phaseNames } from './phase-names.js';
+import { shapeEarthCurvature, shapeGeometry } from './present-crustal.js';
 import type { BranchResult, Interpretation, LayerResult, RefractorResult, ShotSideResult } from './shape.js';
 
 export interface PresentOptions {
@@ -272,6 +273,8 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
     ...(present.options.bootstrapReplicates > 0 ? (['Efron1979', 'Efron1993'] as ReferenceKey[]) : []),
     ...(reversed.pairs.length > 0 ? (['Hagedoorn1959', 'Palmer1980', ...DIPPING_REFERENCES] as ReferenceKey[]) : []),
     ...(checked !== null ? FORWARD_CHECK_REFERENCES : []),
+    ...(result.curvature?.fit ? (['Muller1971', 'Chapman1973', 'Moritz2000'] as ReferenceKey[]) : []),
+    ...(result.placement ? (['Karney2013'] as ReferenceKey[]) : []),
   ]);
 
   return {
@@ -288,6 +291,7 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
       reversedPairs: present.options.reversedPairs === null ? null : present.options.reversedPairs.map((choice) => ({ forwardShot: choice.forwardShot, reverseShot: choice.reverseShot })),
       datumElevation: present.options.datumElevation === null ? null : distance(present.options.datumElevation),
       forwardCheck: present.options.forwardCheck,
+      earthModel: present.options.earthModel,
     },
     summary: {
       shotCount: pickSet.shotIds.length,
@@ -302,6 +306,8 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
     reversedPairs,
     dippingLayers,
     forwardCheck,
+    geometry: shapeGeometry(result.placement, units),
+    earthCurvature: shapeEarthCurvature(result.curvature, units),
     residuals: {
       model: 'first arrivals of the survey layered model (plane horizontal layers, the velocities and depths in `layers`)',
       overallRms: result.residuals.overallRms === null ? null : time(result.residuals.overallRms),

@@ -295,6 +295,78 @@ export const WarningSchema = z.strictObject({
   details: z.record(z.string(), z.union([z.number(), z.string(), z.boolean()])).optional(),
 });
 
+/** One layer of the sphere-fitted model (display units); SEs null when the fit gave no covariance. */
+export const SphericalLayerSchema = z.strictObject({
+  index: z.number().int().min(1),
+  phase: z.string(),
+  velocity: num,
+  velocitySE: nullableNumber,
+  /** null for the half-space. */
+  thickness: nullableNumber,
+  thicknessSE: nullableNumber,
+  /** Depth below the surface to the top of this layer (0 for layer 1). */
+  depthToTop: num,
+  depthToTopSE: nullableNumber,
+});
+
+/** Flat or spherical earth for the layers (earth-curvature.ts); null without a layered model of two layers or more. */
+export const EarthCurvatureSchema = z.strictObject({
+  choice: z.enum(['auto', 'flat', 'spherical']),
+  /** The layers were refit in a sphere; `sphericalLayers` are then the values to use. */
+  applied: z.boolean(),
+  reason: z.string(),
+  /** Sphere radius (GRS80 mean radius). */
+  radius: num,
+  /** Longest offset on a fitted branch. */
+  maxOffset: num,
+  /** Pick uncertainty the flat-earth error is held against. */
+  pickSigma: num,
+  /** Offset at which the flat-earth error of the deepest branch passes pickSigma; null if never. */
+  flatErrorOffset: nullableNumber,
+  /** Flat − spherical time of the deepest branch at maxOffset. */
+  flatErrorAtMaxOffset: nullableNumber,
+  /** The sphere-fitted layers (empty when no fit was run). */
+  sphericalLayers: z.array(SphericalLayerSchema),
+  fit: z.strictObject({
+    pickCount: z.number().int(),
+    rms: num,
+    iterations: z.number().int(),
+    converged: z.boolean(),
+    notes: z.array(z.string()),
+  }).nullable(),
+  /** What a flat reading of the sphere's own times at these offsets carries, flat − spherical, per layer. */
+  flatBias: z.strictObject({
+    velocity: z.array(num),
+    /** Per interface (top of layer k+1); null where the flat recursion gave no value. */
+    depth: z.array(nullableNumber),
+  }).nullable(),
+});
+
+const GeographicPointSchema = z.strictObject({ lat: num, lon: num });
+
+/** Where a geographic table's shots and stations lie on its best-fitting profile line (geodesy/place-on-line.ts). */
+export const GeometrySchema = z.strictObject({
+  /** The line: from `origin` (position 0) to `end`, its azimuth at the centre (degrees from north) and length. */
+  line: z.strictObject({ origin: GeographicPointSchema, end: GeographicPointSchema, azimuth: num, length: num }),
+  /** Off-line distance beyond which a station-off-line warning is given. */
+  offLineLimit: num,
+  shots: z.array(z.strictObject({ shot: z.string(), lat: num, lon: num, position: num, offLineDistance: num })),
+  stations: z.array(
+    z.strictObject({
+      station: z.string(),
+      lat: num,
+      lon: num,
+      /** Along-line position (the station's projection on the line). */
+      position: num,
+      /** Signed distance off the line, + to the right looking along it. */
+      offLineDistance: num,
+      /** Spread of the station's receiver positions over the shots (0 for a station on the line): offsets are geodesic. */
+      receiverXSpread: num,
+      recordedBy: z.number().int(),
+    }),
+  ),
+});
+
 export const InterpretationSchema = z.strictObject({
   schemaVersion: z.literal(1),
   software: z.strictObject({ name: z.literal('slopebreak'), version: z.string() }),
@@ -310,6 +382,7 @@ export const InterpretationSchema = z.strictObject({
     reversedPairs: z.array(z.strictObject({ forwardShot: z.string(), reverseShot: z.string() })).nullable(),
     datumElevation: nullableNumber,
     forwardCheck: z.boolean(),
+    earthModel: z.enum(['auto', 'flat', 'spherical']),
   }),
   summary: z.strictObject({
     shotCount: z.number().int(),
@@ -327,6 +400,10 @@ export const InterpretationSchema = z.strictObject({
   dippingLayers: z.array(DippingLayersSchema),
   /** Travel times through the per-receiver depth section on a grid, against the picks; null when there is no such section. */
   forwardCheck: ForwardCheckSchema.nullable(),
+  /** Geographic tables: the profile line and where each shot and station lies on it; null for a table along a line. */
+  geometry: GeometrySchema.nullable(),
+  /** Flat or spherical earth (matters on crustal profiles of more than about 150 km). */
+  earthCurvature: EarthCurvatureSchema.nullable(),
   residuals: ResidualsSchema,
   warnings: z.array(WarningSchema),
   cautions: z.array(z.string()),
@@ -342,6 +419,8 @@ export type RefractorResult = z.infer<typeof RefractorSchema>;
 export type ReversedPairResult = z.infer<typeof ReversedPairSchema>;
 export type DippingLayersResult = z.infer<typeof DippingLayersSchema>;
 export type ForwardCheckResult = z.infer<typeof ForwardCheckSchema>;
+export type EarthCurvatureResult = z.infer<typeof EarthCurvatureSchema>;
+export type GeometryResult = z.infer<typeof GeometrySchema>;
 
 /** The JSON Schema (draft 2020-12) of the interpretation, for users' own validators. */
 export function interpretationJsonSchema(): unknown {

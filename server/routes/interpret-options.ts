@@ -61,6 +61,8 @@ function optionFields(number: (schema: z.ZodNumber) => z.ZodType<number>, text: 
     datumElevation: fromQuery(decimalFromText, z.number().min(-12_000).max(10_000).nullable()).optional(),
     /** Run the grid forward check of the depth section (default true). */
     forwardCheck: fromQuery(booleanFromText, z.boolean()).optional(),
+    /** Earth model of the layer depths: auto (a sphere where offsets make curvature matter), flat or spherical. */
+    earthModel: z.enum(['auto', 'flat', 'spherical']).optional(),
   };
 }
 

@@ -11,6 +11,8 @@ import { join } from 'node:path';
 import { firstArrivalByRays } from '../oracles/ray-geometry.js';
 import { seededNormal } from '../../lib/random.js';
 import { gridFirstArrivals } from '../oracles/grid-first-arrivals.js';
+import { geodesicDirect, geodesicInverse } from '../../lib/geodesy/geodesic.js';
+import { sphericalBranchTime } from '../../lib/model/spherical-earth.js';
 
 interface Scenario {
   readonly file: string;
@@ -124,6 +126,57 @@ function writeUndulatingBedrock(folder: string): void {
   writeFileSync(join(folder, 'ashcombe-hollow-undulating-bedrock.csv'), `${lines.join('\n')}\n`);
 }
 
+/**
+ * A crustal refraction profile over an invented region: five explosions along a 480 km line and 97
+ * stations every 5 km (positions WGS84, a few hundred metres of scatter off the line, one station
+ * 13 km off it), first arrivals in a sphere of constant-velocity shells (crust 6.25 km/s over a
+ * mantle of 8.05 km/s, Moho at 38 km; lib/model/spherical-earth.ts, checked against the 10.2 case
+ * and scipy), plus a time term at every shot and station for the Moho rising and falling under the
+ * line (±1.5 km over 160 km: δ = ΔH·√(1/V_c² − 1/V_m²)), plus 60 ms of seeded pick noise.
+ */
+function writeCrustalProfile(folder: string): void {
+  const crust = 6250;
+  const mantle = 8050;
+  const moho = 38_000;
+  const model = { velocities: [crust, mantle], thicknesses: [moho], radius: 6_371_008.8 };
+  const q = Math.sqrt(crust ** -2 - mantle ** -2);
+  const mohoAt = (along: number) => moho + 1500 * Math.sin((2 * Math.PI * along) / 160_000);
+  const start = { lat: 61.42, lon: 11.85 };
+  const azimuth = 71.5;
+  const noise = seededNormal(2026_12);
+  const scatter = seededNormal(61);
+  const place = (along: number, off: number) => {
+    const onLine = geodesicDirect(start.lat, start.lon, azimuth, along);
+    return off === 0 ? onLine : geodesicDirect(onLine.lat, onLine.lon, onLine.azimuth2 + 90, off);
+  };
+  const shots = [0, 120, 240, 360, 480].map((km, k) => ({ id: `VX${k + 1}`, along: km * 1000, ...place(km * 1000, 0) }));
+  const stations = range(97, 0, 5).map((km, k) => {
+    const off = k === 47 ? 13_000 : 250 * scatter();
+    return { id: `VM${String(k + 1).padStart(3, '0')}`, along: km * 1000, ...place(km * 1000, off) };
+  });
+  const lines = [
+    '# Vellmark Highlands crustal profile VX-26 (invented demo survey)',
+    '# Five borehole explosions along 480 km, 97 three-component stations every 5 km (station VM048 set 13 km off the line);',
+    '# times are first arrivals read on the vertical component; positions WGS84 decimal degrees.',
+    '# branch: the phase as read on the records, 1 = Pg (crustal), 2 = Pn (mantle head wave).',
+    'shot,source_lat,source_lon,receiver,receiver_lat,receiver_lon,time_s,sigma_s,branch',
+  ];
+  for (const shot of shots) {
+    for (const station of stations) {
+      const { distance } = geodesicInverse(shot.lat, shot.lon, station.lat, station.lon);
+      if (distance < 1000) continue;
+      const pg = sphericalBranchTime(model, 1, distance);
+      const pn = sphericalBranchTime(model, 2, distance);
+      const delayed = pn === null ? null : pn + (mohoAt(shot.along) - moho) * q + (mohoAt(station.along) - moho) * q;
+      const phase = delayed !== null && (pg === null || delayed < pg) ? 2 : 1;
+      const picked = (phase === 2 ? delayed! : pg!) + 0.06 * noise();
+      lines.push([shot.id, shot.lat.toFixed(6), shot.lon.toFixed(6), station.id, station.lat.toFixed(6), station.lon.toFixed(6), picked.toFixed(3), '0.06', String(phase)].join(','));
+    }
+  }
+  writeFileSync(join(folder, 'vellmark-crustal-profile.csv'), `${lines.join('\n')}\n`);
+}
+
 const folder = process.argv[2] ?? 'sample-surveys';
 for (const scenario of SCENARIOS) writeScenario(scenario, folder);
 writeUndulatingBedrock(folder);
+writeCrustalProfile(folder);
