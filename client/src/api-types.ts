@@ -210,6 +210,49 @@ export interface ResidualSummary {
   readonly mean: number | null;
 }
 
+/** One layer of the sphere-fitted model (lib/interpretation/shape.ts SphericalLayerSchema). */
+export interface SphericalLayerResult {
+  readonly index: number;
+  readonly phase: string;
+  readonly velocity: number;
+  readonly velocitySE: number | null;
+  readonly thickness: number | null;
+  readonly thicknessSE: number | null;
+  readonly depthToTop: number;
+  readonly depthToTopSE: number | null;
+}
+
+/** Flat or spherical earth for the layers (lib EarthCurvatureSchema). */
+export interface EarthCurvatureResult {
+  readonly choice: 'auto' | 'flat' | 'spherical';
+  readonly applied: boolean;
+  readonly reason: string;
+  readonly radius: number;
+  readonly maxOffset: number;
+  readonly pickSigma: number;
+  readonly flatErrorOffset: number | null;
+  readonly flatErrorAtMaxOffset: number | null;
+  readonly sphericalLayers: readonly SphericalLayerResult[];
+  readonly fit: { readonly pickCount: number; readonly rms: number; readonly iterations: number; readonly converged: boolean; readonly notes: readonly string[] } | null;
+  readonly flatBias: { readonly velocity: readonly number[]; readonly depth: readonly (number | null)[] } | null;
+}
+
+/** A geographic table's profile line and where each shot and station lies on it (lib GeometrySchema). */
+export interface GeometryResult {
+  readonly line: { readonly origin: { readonly lat: number; readonly lon: number }; readonly end: { readonly lat: number; readonly lon: number }; readonly azimuth: number; readonly length: number };
+  readonly offLineLimit: number;
+  readonly shots: readonly { readonly shot: string; readonly lat: number; readonly lon: number; readonly position: number; readonly offLineDistance: number }[];
+  readonly stations: readonly {
+    readonly station: string;
+    readonly lat: number;
+    readonly lon: number;
+    readonly position: number;
+    readonly offLineDistance: number;
+    readonly receiverXSpread: number;
+    readonly recordedBy: number;
+  }[];
+}
+
 /** Travel times through the per-receiver depth section on a grid, against the picks. */
 export interface ForwardCheckResult {
   readonly model: string;
@@ -251,6 +294,9 @@ export interface Interpretation {
   readonly dippingLayers?: readonly DippingLayersResult[];
   /** null when there is no per-receiver section to check. */
   readonly forwardCheck?: ForwardCheckResult | null;
+  /** Geographic tables only (absent from revisions stored before it existed). */
+  readonly geometry?: GeometryResult | null;
+  readonly earthCurvature?: EarthCurvatureResult | null;
   readonly residuals: {
     readonly model: string;
     readonly overallRms: number | null;

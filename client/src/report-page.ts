@@ -11,7 +11,8 @@ import { depthFigure, sectionMethod } from './depth-figure.js';
 import { h, replaceChildren } from './dom.js';
 import { shortDateTime } from './format.js';
 import { loadPlotly } from './plotly-loader.js';
-import { cautionList, layerTable, referenceList, resultTable, reversedProfileResults, shotTable, surveyWarnings } from './results-view.js';
+import { cautionList, crustalProfileResults, layerTable, referenceList, resultTable, reversedProfileResults, shotTable, surveyWarnings } from './results-view.js';
+import { CRUSTAL_REDUCTION_VELOCITY } from './travel-time-view.js';
 import { seamTable } from './reversed-results.js';
 import { paths } from './routes.js';
 import { travelTimeFigure } from './travel-time-figure.js';
@@ -64,7 +65,7 @@ export async function renderReport(root: HTMLElement, surveyId: string, revision
     const latest = revisions[revisions.length - 1]?.number ?? revision.number;
     // Excluded picks are drawn only when the stored picks are the ones this revision was made from.
     const storedPicks = picks !== null && picks.version === revision.surveyVersion ? picks.pickSet.picks : null;
-    const travel = travelTimeFigure(result, storedPicks, new Set(), { hiddenShots: new Set(), reductionVelocity: null, showLabels: result.shots.length <= 5, dragMode: 'zoom', uiRevision: 'report', allowWebgl: false });
+    const travel = travelTimeFigure(result, storedPicks, new Set(), { hiddenShots: new Set(), reductionVelocity: result.units.scale === 'crustal' ? CRUSTAL_REDUCTION_VELOCITY : null, showLabels: result.shots.length <= 5, dragMode: 'zoom', uiRevision: 'report', allowWebgl: false });
     const method = sectionMethod(result);
     const depth = depthFigure(result, storedPicks, method, 'depth', 'report');
     const seams = seamTable(result, method);
@@ -87,8 +88,9 @@ export async function renderReport(root: HTMLElement, surveyId: string, revision
       ),
       cautionList(result.cautions, 'report-cautions'),
       h('section', { class: 'report-section' }, layerTable(result)),
+      crustalProfileResults(result, true),
       h('section', { class: 'report-section' }, h('h2', {}, 'Travel times'), travelImage,
-        h('p', { class: 'plot-note' }, 'Picks by branch (colour and marker shape), fitted branch lines, fitted crossovers (ringed), residuals against the branch lines underneath.')),
+        h('p', { class: 'plot-note' }, `${result.units.scale === 'crustal' ? `Reduced time t \u2212 x/${CRUSTAL_REDUCTION_VELOCITY}\u202fkm/s. ` : ''}Picks by branch (colour and marker shape), fitted branch lines, fitted crossovers (ringed), residuals against the branch lines underneath.`)),
       h('section', { class: 'report-section' }, h('h2', {}, 'Depth section'), depthImage,
         h('p', { class: 'plot-note' }, `${method ?? 'No refractor depths'}; ±1 standard error.${seamCount > 0 ? ` Dotted vertical marks: the ${seamCount} seam${seamCount === 1 ? '' : 's'} where the section passes from one reversed pair to the next (listed below).` : ''} Dashed: the survey's combined layer tops.`),
         seamCount > 0 ? resultTable(seams, 'seam-table', true) : null),

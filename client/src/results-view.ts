@@ -11,6 +11,7 @@ import { branchStyle } from './branch-style.js';
 import { h } from './dom.js';
 import { branchLabel, plain, quantity, withError } from './format.js';
 import { dippingLayerTable, forwardCheckSummary, reversedPairTable, type Cell, type Table } from './reversed-results.js';
+import { earthCurvatureSentence, offLineTable, sphericalLayerTable } from './crustal-results.js';
 
 const LEVEL_WORDS: Record<WarningResult['level'], string> = { caution: 'Caution', warning: 'Warning', info: 'Note' };
 
@@ -196,6 +197,23 @@ export function forwardCheckBlock(result: Interpretation): HTMLElement | null {
       resultTable(summary.worstReceivers, 'forward-check-receivers', true),
     ),
     summary.notes.length > 0 ? h('ul', { class: 'table-notes' }, ...summary.notes.map((note) => h('li', {}, note))) : null,
+  );
+}
+
+/**
+ * The crustal-profile results: the earth-curvature decision and the sphere-fitted layers, and the
+ * shots and stations far off the profile line; null when the interpretation has neither.
+ */
+export function crustalProfileResults(result: Interpretation, printable: boolean): HTMLElement | null {
+  const sentence = earthCurvatureSentence(result);
+  const layers = sphericalLayerTable(result);
+  const offLine = offLineTable(result);
+  if (sentence === null && offLine.rows.length === 0) return null;
+  return h('section', { class: 'crustal-results', 'aria-label': 'Crustal profile' },
+    h('h2', {}, 'Crustal profile'),
+    sentence === null ? null : h('p', { class: 'earth-curvature' }, sentence),
+    layers.rows.length > 0 ? resultTable(layers, 'spherical-layer-table', printable) : null,
+    offLine.rows.length > 0 ? resultTable(offLine, 'off-line-table', printable) : null,
   );
 }
 

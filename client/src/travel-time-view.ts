@@ -17,6 +17,9 @@ import { loadPlotly, webglAvailable } from './plotly-loader.js';
 import { branchChip, layerChip } from './results-view.js';
 import { travelTimeFigure, type TravelTimeOptions } from './travel-time-figure.js';
 
+/** Reduction velocity a crustal survey opens with, km/s (8 km/s flattens Pn; 6 km/s flattens Pg: common practice). */
+export const CRUSTAL_REDUCTION_VELOCITY = 8;
+
 export interface EditState {
   /** Edits can be made (the latest revision of the current picks is shown). */
   readonly editable: boolean;
@@ -102,7 +105,8 @@ export class TravelTimeView {
     this.uiRevision = uiRevision;
     if (surveyChanged) {
       this.hiddenShots.clear();
-      this.reductionVelocity = null;
+      // Long profiles are read in reduced time (common practice: 8 km/s puts Pn flat); short ones in plain time.
+      this.reductionVelocity = result.units.scale === 'crustal' ? CRUSTAL_REDUCTION_VELOCITY : null;
       this.labelChoice = null;
       this.selection = new Set();
       this.chosenBreakpoint = 0;
@@ -136,7 +140,7 @@ export class TravelTimeView {
         },
       }, label)),
     );
-    const typical = units.velocity === 'km/s' ? 8 : 3000;
+    const typical = units.velocity === 'km/s' ? CRUSTAL_REDUCTION_VELOCITY : 3000;
     const velocityInput = h('input', {
       type: 'number', id: 'reduction-velocity', min: units.velocity === 'km/s' ? 0.1 : 50, step: 'any', value: String(this.reductionVelocity ?? typical),
       disabled: this.reductionVelocity === null, 'aria-label': `Reduction velocity (${units.velocity})`, class: 'narrow',

@@ -13,7 +13,7 @@ import { effectiveEdits, inverseEdits } from './branch-editing.js';
 import { DepthView } from './depth-view.js';
 import { h, keepingFocus, replaceChildren } from './dom.js';
 import { shortDateTime } from './format.js';
-import { cautionList, layerTable, referenceList, shotTable, surveyWarnings } from './results-view.js';
+import { cautionList, crustalProfileResults, layerTable, referenceList, shotTable, surveyWarnings } from './results-view.js';
 import { parseRoute, paths, type Route } from './routes.js';
 import { SurveyPanel } from './survey-panel.js';
 import { TravelTimeView } from './travel-time-view.js';
@@ -360,6 +360,7 @@ export class Workspace {
         h('div', { class: 'results-main' }, layerTable(result)),
         h('div', { class: 'results-side' }, surveyWarnings(result), cautionList(result.cautions)),
       ),
+      crustalProfileResults(result, false),
       shotTable(result),
       referenceList(result),
     );
