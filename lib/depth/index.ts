@@ -52,3 +52,4 @@ export {
   type SphericalFitOptions,
   type SphericalPick,
 } from './spherical-fit.js';
+export * from './time-term.js'; export * from './time-term-depth.js'; // the time-term inversion of every head-wave pick (ScheideggerWillmore1957) and time terms to depth
