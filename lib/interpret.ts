@@ -35,6 +35,7 @@ import { surveyWarnings, sideWarnings } from './interpretation/survey-checks.js'
 import { forwardResiduals, type ForwardResiduals } from './interpretation/residuals.js';
 import { shapeInterpretation } from './interpretation/present.js';
 import { placeOnLine, type LinePlacement } from './geodesy/place-on-line.js';
+import { surveyTimeTerms, type SurveyTimeTerms } from './interpretation/survey-time-terms.js';
 import { earthCurvature, type EarthCurvature, type EarthModelChoice } from './interpretation/earth-curvature.js';
 import type { Interpretation } from './interpretation/shape.js';
 import type { LayeredModel } from './model/layered-model.js';
@@ -64,6 +65,8 @@ export interface InterpretOptions {
   readonly forwardCheck?: boolean;
   /** Earth model for the layer depths: `auto` (default: a sphere where offsets are long enough for curvature to matter), `flat` or `spherical`. */
   readonly earthModel?: EarthModelChoice;
+  /** Solve the time-term method on the deepest refractor (shot and station delays, depth under every station). Default true. */
+  readonly timeTerms?: boolean;
 }
 
 export const DEFAULT_OPTIONS = {
@@ -76,6 +79,7 @@ export const DEFAULT_OPTIONS = {
   datumElevation: null as number | null,
   forwardCheck: true,
   earthModel: 'auto' as EarthModelChoice,
+  timeTerms: true,
 };
 
 /** Time resolution assumed for picks of each scale of table (s): 0.1 ms engineering, 10 ms crustal (common practice). */
@@ -116,6 +120,8 @@ export interface SurveyResult {
   readonly curvature: EarthCurvature | null;
   /** Where a geographic table's shots and stations lie on its profile line; null for a table along a line. */
   readonly placement: LinePlacement | null;
+  /** The time-term method on the deepest refractor (`survey-time-terms.ts`); null when off or not solvable. */
+  readonly timeTerms: SurveyTimeTerms | null;
   readonly warnings: readonly InterpretationWarning[];
 }
 
@@ -200,7 +206,9 @@ export function interpretSurvey(
   warnings.push(...reversed.warnings);
   const curvature = earthCurvature(segmentations, model, settings.earthModel, timeResolution);
   if (curvature) warnings.push(...curvature.warnings);
-  return { pickSet, sides, combined, model, residuals, refractorTests: identity.tests, reversed, curvature, placement: null, warnings };
+  const delays = settings.timeTerms ? surveyTimeTerms(pickSet, segmentations, model, combined, curvature, warnings) : null;
+  if (delays) warnings.push(...delays.warnings);
+  return { pickSet, sides, combined, model, residuals, refractorTests: identity.tests, reversed, curvature, placement: null, timeTerms: delays, warnings };
 }
 
 /** One `branches-one-refractor` warning per branch split undone, naming the pairs and where the split lay. */

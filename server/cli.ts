@@ -4,7 +4,7 @@
  *
  *   slopebreak interpret FILE [--json] [--robust | --fit METHOD] [--bootstrap N] [--seed S]
  *                             [--scale engineering|crustal] [--pair A:B]... [--datum ELEV]
- *                             [--no-forward-check] [--earth auto|flat|spherical]
+ *                             [--no-forward-check] [--earth auto|flat|spherical] [--no-time-terms]
  *   slopebreak schema            print the JSON Schema of the interpretation
  *   slopebreak --help | --version
  *
@@ -54,6 +54,8 @@ interpret options:
   --no-forward-check     skip the grid forward check of the depth section
   --earth MODEL          auto (default: a spherical earth where the offsets are long enough for
                          curvature to matter), flat or spherical
+  --no-time-terms        skip the time-term inversion (shot and station delays on the deepest
+                         refractor, and its depth under every station)
 
 serve options:
   --host H               interface to listen on (default 127.0.0.1; 0.0.0.0 opens it to the office network)
@@ -92,6 +94,7 @@ function runInterpret(args: readonly string[]): number {
       datum: { type: 'string' },
       'no-forward-check': { type: 'boolean' },
       earth: { type: 'string' },
+      'no-time-terms': { type: 'boolean' },
     },
   });
   if (positionals.length !== 1) throw new UsageError('interpret takes exactly one pick-table file');
@@ -156,6 +159,7 @@ function runInterpret(args: readonly string[]): number {
     datumElevation: datumElevation ?? null,
     forwardCheck: !values['no-forward-check'],
     earthModel: values.earth as (typeof earthModels)[number] | undefined,
+    timeTerms: !values['no-time-terms'],
     sourceName: basename(file),
     softwareVersion: softwareVersion(),
   });

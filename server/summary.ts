@@ -68,6 +68,7 @@ export function formatSummary(result: Interpretation): string {
     ),
   );
   out.push(...earthCurvatureLines(result, { distanceDigits, timeDigits, velocityDigits }));
+  out.push(...timeTermLines(result, { distanceDigits, timeDigits, velocityDigits }));
   out.push('');
   out.push(`DEPTH BELOW EACH SHOT  (${units.distance}; interface k = top of layer k+1)`);
   const depthRows: string[][] = [];
@@ -123,6 +124,43 @@ export function formatSummary(result: Interpretation): string {
     out.push(...wrap(`* ${caution}`, '  ').map((line, k) => (k === 0 ? line : `    ${line.trimStart()}`)));
   }
   return out.join('\n') + '\n';
+}
+
+/** Stations listed in the time-term block before the rest are counted (a long line has hundreds). */
+const TIME_TERM_STATIONS_SHOWN = 40;
+
+/** The time-term block: the refractor velocity, the constraint, shot terms and the depth under each station. */
+function timeTermLines(result: Interpretation, digits: Digits): string[] {
+  const terms = result.timeTerms;
+  if (!terms) return [];
+  const { units } = result;
+  const out: string[] = [''];
+  out.push(`TIME TERMS  (${terms.phase}, branch ${terms.branch}; time-term method; ± is one standard error)`);
+  out.push(
+    ...wrap(
+      `velocity ${plusMinus(terms.velocity, terms.velocitySE, digits.velocityDigits + 1)} ${units.velocity}` +
+        (terms.velocity !== terms.lineVelocity ? ` (at the refractor's radius; along the surface ${fixed(terms.lineVelocity, digits.velocityDigits + 1)})` : '') +
+        ` · ${terms.pickCount} picks, ${terms.rejectedCount} left out · RMS ${fixed(terms.rms, digits.timeDigits)} ${units.time} · reduced χ² ${fixed(terms.reducedChiSquare, 2)}`,
+      '  ',
+    ),
+  );
+  out.push(...wrap(`constraint: ${terms.constraint}`, '  '));
+  out.push(...wrap(`shots: ${terms.shots.map((shot) => `${shot.id} ${plusMinus(shot.term, shot.termSE, digits.timeDigits)}`).join(', ')} ${units.time}`, '  '));
+  const shown = terms.stations.length <= TIME_TERM_STATIONS_SHOWN ? terms.stations : terms.stations.filter((_, k) => k % Math.ceil(terms.stations.length / TIME_TERM_STATIONS_SHOWN) === 0);
+  out.push(
+    ...table(
+      ['station', `at ${units.distance}`, `time term ${units.time}`, 'picks', `depth ${units.distance}`],
+      shown.map((station) => [
+        station.id,
+        fixed(station.position + 0, digits.distanceDigits).replace(/^-(0\.0*)$/, '$1'),
+        plusMinus(station.term, station.termSE, digits.timeDigits),
+        String(station.picks),
+        station.depth === null ? (station.depthNote ?? '—') : plusMinus(station.depth, station.depthSE, digits.distanceDigits),
+      ]),
+    ).map((line) => `  ${line}`),
+  );
+  if (shown.length < terms.stations.length) out.push(`  (1 in ${Math.ceil(terms.stations.length / TIME_TERM_STATIONS_SHOWN)} of the ${terms.stations.length} stations shown; --json lists them all)`);
+  return out;
 }
 
 /** The earth-curvature block: the flat-earth limit, and the sphere-fitted layers with the flat reading's bias. */

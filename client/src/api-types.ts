@@ -253,6 +253,38 @@ export interface GeometryResult {
   }[];
 }
 
+interface TimeTermEntry {
+  readonly id: string;
+  readonly term: number;
+  readonly termSE: number;
+  readonly picks: number;
+  readonly rejected: number;
+  readonly sharedWith: string | null;
+}
+
+/** The time-term method on the deepest refractor (lib TimeTermsSchema). */
+export interface TimeTermsResult {
+  readonly branch: number;
+  readonly phase: string;
+  readonly velocity: number;
+  readonly velocitySE: number;
+  readonly lineVelocity: number;
+  readonly constraint: string;
+  readonly solver: string;
+  readonly pickCount: number;
+  readonly rejectedCount: number;
+  readonly rms: number;
+  readonly reducedChiSquare: number;
+  readonly shots: readonly TimeTermEntry[];
+  readonly stations: readonly (TimeTermEntry & {
+    readonly position: number;
+    readonly depth: number | null;
+    readonly depthSE: number | null;
+    readonly depthBelowSeaLevel: number | null;
+    readonly depthNote: string | null;
+  })[];
+}
+
 /** Travel times through the per-receiver depth section on a grid, against the picks. */
 export interface ForwardCheckResult {
   readonly model: string;
@@ -297,6 +329,7 @@ export interface Interpretation {
   /** Geographic tables only (absent from revisions stored before it existed). */
   readonly geometry?: GeometryResult | null;
   readonly earthCurvature?: EarthCurvatureResult | null;
+  readonly timeTerms?: TimeTermsResult | null;
   readonly residuals: {
     readonly model: string;
     readonly overallRms: number | null;

@@ -96,3 +96,37 @@ export function offLineTable(result: Interpretation): Table {
       : [],
   };
 }
+
+/** The time-term block's sentence: refractor, velocity, constraint and fit. */
+export function timeTermSentence(result: Interpretation): string | null {
+  const terms = result.timeTerms;
+  if (!terms) return null;
+  const { units } = result;
+  const surface = terms.velocity !== terms.lineVelocity ? ` (at the refractor\u2019s radius; ${plain(terms.lineVelocity, 5)} along the surface)` : '';
+  return `Time terms of ${terms.phase} (branch ${terms.branch}): velocity ${withError(terms.velocity, terms.velocitySE)}\u202f${units.velocity}${surface}, from ${terms.pickCount} picks (${terms.rejectedCount} left out), RMS ${plain(terms.rms, 3)}\u202f${units.time}. Constraint: ${terms.constraint}`;
+}
+
+/** Every station's time term and the depth of the refractor under it, along the line. */
+export function stationDepthTable(result: Interpretation): Table {
+  const { units } = result;
+  const terms = result.timeTerms;
+  return {
+    caption: `Depth of ${terms?.phase ?? 'the refractor'}\u2019s refractor under each station (time-term method, ± one standard error)`,
+    columns: ['Station', `Along the line (${units.distance})`, `Time term (${units.time})`, 'Picks', `Depth (${units.distance})`],
+    rows: (terms?.stations ?? []).map((station) => ({
+      key: station.id,
+      flagged: false,
+      notes: station.depthNote === null ? [] : [station.depthNote],
+      cells: [
+        { text: station.id, details: station.sharedWith === null ? [] : [`shares its term with shot ${station.sharedWith}`] },
+        { text: plain(station.position + 0, 4), numeric: true },
+        { text: withError(station.term, station.termSE), numeric: true },
+        { text: String(station.picks), numeric: true },
+        { text: station.depth === null ? '—' : withError(station.depth, station.depthSE), numeric: true },
+      ],
+    })),
+    footnotes: terms
+      ? ['A time term belongs to where the rays cross the refractor, offset towards the shots by about h·tan θ: read the depths as a smoothed regional profile, not point depths under each station.']
+      : [],
+  };
+}

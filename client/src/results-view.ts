@@ -11,7 +11,7 @@ import { branchStyle } from './branch-style.js';
 import { h } from './dom.js';
 import { branchLabel, plain, quantity, withError } from './format.js';
 import { dippingLayerTable, forwardCheckSummary, reversedPairTable, type Cell, type Table } from './reversed-results.js';
-import { earthCurvatureSentence, offLineTable, sphericalLayerTable } from './crustal-results.js';
+import { earthCurvatureSentence, offLineTable, sphericalLayerTable, stationDepthTable, timeTermSentence } from './crustal-results.js';
 
 const LEVEL_WORDS: Record<WarningResult['level'], string> = { caution: 'Caution', warning: 'Warning', info: 'Note' };
 
@@ -208,12 +208,17 @@ export function crustalProfileResults(result: Interpretation, printable: boolean
   const sentence = earthCurvatureSentence(result);
   const layers = sphericalLayerTable(result);
   const offLine = offLineTable(result);
-  if (sentence === null && offLine.rows.length === 0) return null;
-  return h('section', { class: 'crustal-results', 'aria-label': 'Crustal profile' },
-    h('h2', {}, 'Crustal profile'),
+  const terms = timeTermSentence(result);
+  const stations = stationDepthTable(result);
+  if (sentence === null && offLine.rows.length === 0 && terms === null) return null;
+  const heading = result.units.scale === 'crustal' ? 'Crustal profile' : 'Time terms';
+  return h('section', { class: 'crustal-results', 'aria-label': heading },
+    h('h2', {}, heading),
     sentence === null ? null : h('p', { class: 'earth-curvature' }, sentence),
     layers.rows.length > 0 ? resultTable(layers, 'spherical-layer-table', printable) : null,
     offLine.rows.length > 0 ? resultTable(offLine, 'off-line-table', printable) : null,
+    terms === null ? null : h('p', { class: 'time-term-summary' }, terms),
+    stations.rows.length > 0 ? resultTable(stations, 'station-depth-table', printable) : null,
   );
 }
 

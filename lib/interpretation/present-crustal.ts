@@ -6,7 +6,8 @@ import type { DisplayUnits } from '../units.js';
 import { distanceFromSI, timeFromSI, velocityFromSI } from '../units.js';
 import { EARTH_MEAN_RADIUS } from '../model/earth-flattening.js';
 import type { EarthCurvature } from './earth-curvature.js';
-import type { EarthCurvatureResult, GeometryResult } from './shape.js';
+import type { EarthCurvatureResult, GeometryResult, TimeTermsResult } from './shape.js';
+import type { SurveyTimeTerms } from './survey-time-terms.js';
 import type { LinePlacement } from '../geodesy/place-on-line.js';
 import { phaseNames } from './phase-names.js';
 
@@ -71,5 +72,48 @@ export function shapeGeometry(placement: LinePlacement | null, units: DisplayUni
       receiverXSpread: distance(station.receiverXSpread),
       recordedBy: station.recordedBy,
     })),
+  };
+}
+
+export function shapeTimeTerms(delays: SurveyTimeTerms | null, units: DisplayUnits): TimeTermsResult | null {
+  if (delays === null) return null;
+  const distance = (metres: number) => distanceFromSI(metres, units);
+  const time = (seconds: number) => timeFromSI(seconds, units);
+  const velocity = (metresPerSecond: number) => velocityFromSI(metresPerSecond, units);
+  const { result } = delays;
+  const term = (entry: (typeof result.shotTerms)[number]) => ({
+    id: entry.id,
+    term: time(entry.value),
+    termSE: time(entry.standardError),
+    picks: entry.picks,
+    rejected: entry.rejected,
+    sharedWith: entry.sharedWith,
+  });
+  const byStation = new Map(result.stationTerms.map((entry) => [entry.id, entry]));
+  const phases = phaseNames(Array.from({ length: delays.branch }, (_, k) => (k === delays.branch - 1 ? delays.velocity.value : Number.NaN)), units.scale);
+  return {
+    branch: delays.branch,
+    phase: phases[delays.branch - 1]!,
+    velocity: velocity(delays.velocity.value),
+    velocitySE: velocity(delays.velocity.standardError),
+    lineVelocity: velocity(delays.lineVelocity.value),
+    constraint: result.constraint,
+    solver: result.solverText,
+    pickCount: result.shotTerms.reduce((sum, entry) => sum + entry.picks, 0),
+    rejectedCount: result.rejectedRows.length,
+    rms: time(result.residualRms),
+    reducedChiSquare: result.reducedChiSquare,
+    shots: result.shotTerms.map(term),
+    stations: delays.stations.map((station) => {
+      const depth = station.depth;
+      return {
+        ...term(byStation.get(station.station)!),
+        position: distance(station.position),
+        depth: depth.ok ? distance(depth.depth.value) : null,
+        depthSE: depth.ok ? distance(depth.depth.standardError) : null,
+        depthBelowSeaLevel: depth.ok && depth.depthBelowSeaLevel !== null ? distance(depth.depthBelowSeaLevel.value) : null,
+        depthNote: depth.ok ? null : depth.message,
+      };
+    }),
   };
 }

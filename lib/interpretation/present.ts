@@ -15,7 +15,7 @@ import { FORWARD_CHECK_REFERENCES } from '../model/forward-check.js';
 import type { DelayMethod } from './reversed-profile.js';
 import { thicknessesFromDepths } from './survey-layers.js';
 import { phaseNames } from './phase-names.js';
-import { shapeEarthCurvature, shapeGeometry } from './present-crustal.js';
+import { shapeEarthCurvature, shapeGeometry, shapeTimeTerms } from './present-crustal.js';
 import type { BranchResult, Interpretation, LayerResult, RefractorResult, ShotSideResult } from './shape.js';
 
 export interface PresentOptions {
@@ -275,6 +275,7 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
     ...(checked !== null ? FORWARD_CHECK_REFERENCES : []),
     ...(result.curvature?.fit ? (['Muller1971', 'Chapman1973', 'Moritz2000'] as ReferenceKey[]) : []),
     ...(result.placement ? (['Karney2013'] as ReferenceKey[]) : []),
+    ...(result.timeTerms ? (['ScheideggerWillmore1957', 'WillmoreBancroft1960', 'BerryWest1966', ...(result.timeTerms.result.solver === 'lsqr' ? (['PaigeSaunders1982'] as ReferenceKey[]) : [])] as ReferenceKey[]) : []),
   ]);
 
   return {
@@ -292,6 +293,7 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
       datumElevation: present.options.datumElevation === null ? null : distance(present.options.datumElevation),
       forwardCheck: present.options.forwardCheck,
       earthModel: present.options.earthModel,
+      timeTerms: present.options.timeTerms,
     },
     summary: {
       shotCount: pickSet.shotIds.length,
@@ -308,6 +310,7 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
     forwardCheck,
     geometry: shapeGeometry(result.placement, units),
     earthCurvature: shapeEarthCurvature(result.curvature, units),
+    timeTerms: shapeTimeTerms(result.timeTerms, units),
     residuals: {
       model: 'first arrivals of the survey layered model (plane horizontal layers, the velocities and depths in `layers`)',
       overallRms: result.residuals.overallRms === null ? null : time(result.residuals.overallRms),

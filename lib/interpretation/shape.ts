@@ -367,6 +367,40 @@ export const GeometrySchema = z.strictObject({
   ),
 });
 
+const TermSchema = z.strictObject({ id: z.string(), term: num, termSE: num, picks: z.number().int(), rejected: z.number().int(), sharedWith: z.string().nullable() });
+
+/** The time-term method on the deepest refractor (survey-time-terms.ts); null when not run or not solvable. */
+export const TimeTermsSchema = z.strictObject({
+  /** The refractor: branch n (the top of layer n) and its phase name. */
+  branch: z.number().int().min(2),
+  phase: z.string(),
+  /** Refractor velocity (corrected to the refractor's radius when the sphere was applied). */
+  velocity: num,
+  velocitySE: num,
+  /** The velocity the line itself gives (differs from `velocity` only in a sphere). */
+  lineVelocity: num,
+  /** How a_i + b_j is split between shot and station, in words. */
+  constraint: z.string(),
+  solver: z.string(),
+  pickCount: z.number().int(),
+  rejectedCount: z.number().int(),
+  rms: num,
+  reducedChiSquare: num,
+  shots: z.array(TermSchema),
+  stations: z.array(
+    TermSchema.extend({
+      /** Along-line position. */
+      position: num,
+      /** Depth to the refractor below the station, with SE; null with `depthNote` when the term allows none. */
+      depth: nullableNumber,
+      depthSE: nullableNumber,
+      /** Depth below sea level (depth − elevation) when the table gives elevations. */
+      depthBelowSeaLevel: nullableNumber,
+      depthNote: z.string().nullable(),
+    }),
+  ),
+});
+
 export const InterpretationSchema = z.strictObject({
   schemaVersion: z.literal(1),
   software: z.strictObject({ name: z.literal('slopebreak'), version: z.string() }),
@@ -383,6 +417,7 @@ export const InterpretationSchema = z.strictObject({
     datumElevation: nullableNumber,
     forwardCheck: z.boolean(),
     earthModel: z.enum(['auto', 'flat', 'spherical']),
+    timeTerms: z.boolean(),
   }),
   summary: z.strictObject({
     shotCount: z.number().int(),
@@ -404,6 +439,8 @@ export const InterpretationSchema = z.strictObject({
   geometry: GeometrySchema.nullable(),
   /** Flat or spherical earth (matters on crustal profiles of more than about 150 km). */
   earthCurvature: EarthCurvatureSchema.nullable(),
+  /** Shot and station delays on the deepest refractor and its depth under every station (the time-term method). */
+  timeTerms: TimeTermsSchema.nullable(),
   residuals: ResidualsSchema,
   warnings: z.array(WarningSchema),
   cautions: z.array(z.string()),
@@ -421,6 +458,7 @@ export type DippingLayersResult = z.infer<typeof DippingLayersSchema>;
 export type ForwardCheckResult = z.infer<typeof ForwardCheckSchema>;
 export type EarthCurvatureResult = z.infer<typeof EarthCurvatureSchema>;
 export type GeometryResult = z.infer<typeof GeometrySchema>;
+export type TimeTermsResult = z.infer<typeof TimeTermsSchema>;
 
 /** The JSON Schema (draft 2020-12) of the interpretation, for users' own validators. */
 export function interpretationJsonSchema(): unknown {

@@ -63,6 +63,8 @@ function optionFields(number: (schema: z.ZodNumber) => z.ZodType<number>, text: 
     forwardCheck: fromQuery(booleanFromText, z.boolean()).optional(),
     /** Earth model of the layer depths: auto (a sphere where offsets make curvature matter), flat or spherical. */
     earthModel: z.enum(['auto', 'flat', 'spherical']).optional(),
+    /** Solve the time-term method on the deepest refractor (default true). */
+    timeTerms: fromQuery(booleanFromText, z.boolean()).optional(),
   };
 }
 

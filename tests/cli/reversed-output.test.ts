@@ -25,7 +25,7 @@ const CLI = join('dist', 'server', 'cli.js');
 const SEAMS_SHOWN = 8;
 
 function slopebreak(...args: string[]) {
-  const result = spawnSync(process.execPath, [CLI, ...args], { encoding: 'utf8', timeout: 120_000 });
+  const result = spawnSync(process.execPath, [CLI, ...args], { encoding: 'utf8', timeout: 120_000, maxBuffer: 256 * 1024 * 1024 });
   return { status: result.status, stdout: result.stdout, stderr: result.stderr };
 }
 

@@ -9,7 +9,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { plain, withError } from '../../client/src/format.js';
-import { earthCurvatureSentence, OFF_LINE_MARK, offLineTable, sphericalLayerTable } from '../../client/src/crustal-results.js';
+import { earthCurvatureSentence, OFF_LINE_MARK, offLineTable, sphericalLayerTable, stationDepthTable, timeTermSentence } from '../../client/src/crustal-results.js';
 import { interpret } from '../../lib/interpret.js';
 import { asClient, engineView, readTable } from './engine-inputs.js';
 
@@ -58,6 +58,21 @@ describe('crustal-profile tables', () => {
     expect(table.rows[0]!.cells[3]!.text).toBe(`${plain(Math.abs(station.offLineDistance), 3)} ${station.offLineDistance >= 0 ? 'right' : 'left'}`);
     expect(table.rows[0]!.cells[3]!.mark).toBe(OFF_LINE_MARK);
     expect(table.footnotes[0]).toContain('geodesic');
+  });
+
+  it('stationDepthTable lists every station of lib\'s time terms along the line, with its term and depth ± SE', () => {
+    const terms = VELLMARK.timeTerms!;
+    const table = stationDepthTable(asClient(VELLMARK));
+    expect(table.rows.map((row) => row.key)).toEqual(terms.stations.map((station) => station.id));
+    terms.stations.forEach((station, k) => {
+      const cells = table.rows[k]!.cells;
+      expect(cells[2]!.text).toBe(withError(station.term, station.termSE));
+      expect(cells[4]!.text).toBe(station.depth === null ? '—' : withError(station.depth, station.depthSE));
+    });
+    // Shots stand at stations VM001, VM025, …: those rows say so.
+    expect(table.rows[0]!.cells[0]!.details).toEqual([`shares its term with shot ${terms.stations[0]!.sharedWith}`]);
+    expect(timeTermSentence(asClient(VELLMARK))).toContain(`velocity ${withError(terms.velocity, terms.velocitySE)}\u202fkm/s`);
+    expect(timeTermSentence(asClient(VELLMARK))).toContain('along the surface');
   });
 
   it('an engineering survey along a line has no geometry, and no off-line rows', () => {
