@@ -67,6 +67,8 @@ export interface InterpretOptions {
   readonly earthModel?: EarthModelChoice;
   /** Solve the time-term method on the deepest refractor (shot and station delays, depth under every station). Default true. */
   readonly timeTerms?: boolean;
+  /** Add the refractor's velocity-gradient term (−κΔ³, a diving wave below the refractor) to the time-term model. Default false. */
+  readonly timeTermGradient?: boolean;
 }
 
 export const DEFAULT_OPTIONS = {
@@ -80,6 +82,7 @@ export const DEFAULT_OPTIONS = {
   forwardCheck: true,
   earthModel: 'auto' as EarthModelChoice,
   timeTerms: true,
+  timeTermGradient: false,
 };
 
 /** Time resolution assumed for picks of each scale of table (s): 0.1 ms engineering, 10 ms crustal (common practice). */
@@ -206,7 +209,7 @@ export function interpretSurvey(
   warnings.push(...reversed.warnings);
   const curvature = earthCurvature(segmentations, model, settings.earthModel, timeResolution);
   if (curvature) warnings.push(...curvature.warnings);
-  const delays = settings.timeTerms ? surveyTimeTerms(pickSet, segmentations, model, combined, curvature, warnings) : null;
+  const delays = settings.timeTerms ? surveyTimeTerms(pickSet, segmentations, model, combined, curvature, warnings, settings.timeTermGradient) : null;
   if (delays) warnings.push(...delays.warnings);
   return { pickSet, sides, combined, model, residuals, refractorTests: identity.tests, reversed, curvature, placement: null, timeTerms: delays, warnings };
 }

@@ -56,6 +56,8 @@ interpret options:
                          curvature to matter), flat or spherical
   --no-time-terms        skip the time-term inversion (shot and station delays on the deepest
                          refractor, and its depth under every station)
+  --time-term-gradient   add a velocity gradient below the refractor to the time-term model
+                         (t = a + b + Δ/V − κΔ³; the gradient g = √(24κV³) is reported)
 
 serve options:
   --host H               interface to listen on (default 127.0.0.1; 0.0.0.0 opens it to the office network)
@@ -95,6 +97,7 @@ function runInterpret(args: readonly string[]): number {
       'no-forward-check': { type: 'boolean' },
       earth: { type: 'string' },
       'no-time-terms': { type: 'boolean' },
+      'time-term-gradient': { type: 'boolean' },
     },
   });
   if (positionals.length !== 1) throw new UsageError('interpret takes exactly one pick-table file');
@@ -160,6 +163,7 @@ function runInterpret(args: readonly string[]): number {
     forwardCheck: !values['no-forward-check'],
     earthModel: values.earth as (typeof earthModels)[number] | undefined,
     timeTerms: !values['no-time-terms'],
+    timeTermGradient: values['time-term-gradient'] === true,
     sourceName: basename(file),
     softwareVersion: softwareVersion(),
   });

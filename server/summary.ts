@@ -140,6 +140,7 @@ function timeTermLines(result: Interpretation, digits: Digits): string[] {
     ...wrap(
       `velocity ${plusMinus(terms.velocity, terms.velocitySE, digits.velocityDigits + 1)} ${units.velocity}` +
         (terms.velocity !== terms.lineVelocity ? ` (at the refractor's radius; along the surface ${fixed(terms.lineVelocity, digits.velocityDigits + 1)})` : '') +
+        (terms.velocityGradient !== null ? ` · gradient below it ${plusMinus(terms.velocityGradient, terms.velocityGradientSE, 5)} ${units.velocity} per ${units.distance}` : '') +
         ` · ${terms.pickCount} picks, ${terms.rejectedCount} left out · RMS ${fixed(terms.rms, digits.timeDigits)} ${units.time} · reduced χ² ${fixed(terms.reducedChiSquare, 2)}`,
       '  ',
     ),

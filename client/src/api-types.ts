@@ -269,6 +269,8 @@ export interface TimeTermsResult {
   readonly velocity: number;
   readonly velocitySE: number;
   readonly lineVelocity: number;
+  readonly velocityGradient?: number | null;
+  readonly velocityGradientSE?: number | null;
   readonly constraint: string;
   readonly solver: string;
   readonly pickCount: number;

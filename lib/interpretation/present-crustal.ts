@@ -97,6 +97,9 @@ export function shapeTimeTerms(delays: SurveyTimeTerms | null, units: DisplayUni
     velocity: velocity(delays.velocity.value),
     velocitySE: velocity(delays.velocity.standardError),
     lineVelocity: velocity(delays.lineVelocity.value),
+    // g in 1/s is the same number in (m/s)/m and (km/s)/km.
+    velocityGradient: result.gradient?.velocityGradient.ok ? result.gradient.velocityGradient.value : null,
+    velocityGradientSE: result.gradient?.velocityGradient.ok ? result.gradient.velocityGradient.standardError : null,
     constraint: result.constraint,
     solver: result.solverText,
     pickCount: result.shotTerms.reduce((sum, entry) => sum + entry.picks, 0),

@@ -294,6 +294,7 @@ export function shapeInterpretation(result: SurveyResult, present: PresentOption
       forwardCheck: present.options.forwardCheck,
       earthModel: present.options.earthModel,
       timeTerms: present.options.timeTerms,
+      timeTermGradient: present.options.timeTermGradient,
     },
     summary: {
       shotCount: pickSet.shotIds.length,

@@ -379,6 +379,9 @@ export const TimeTermsSchema = z.strictObject({
   velocitySE: num,
   /** The velocity the line itself gives (differs from `velocity` only in a sphere). */
   lineVelocity: num,
+  /** With the gradient option: dV/dz below the refractor (velocity per distance, e.g. (km/s)/km = 1/s) ± SE; null otherwise or when not resolved. */
+  velocityGradient: nullableNumber,
+  velocityGradientSE: nullableNumber,
   /** How a_i + b_j is split between shot and station, in words. */
   constraint: z.string(),
   solver: z.string(),
@@ -418,6 +421,7 @@ export const InterpretationSchema = z.strictObject({
     forwardCheck: z.boolean(),
     earthModel: z.enum(['auto', 'flat', 'spherical']),
     timeTerms: z.boolean(),
+    timeTermGradient: z.boolean(),
   }),
   summary: z.strictObject({
     shotCount: z.number().int(),

@@ -68,6 +68,7 @@ export function surveyTimeTerms(
   combined: CombinedLayers,
   curvature: EarthCurvature | null,
   skipped?: InterpretationWarning[],
+  gradient = false,
 ): SurveyTimeTerms | null {
   if (model === null || model.velocities.length < 2) return null;
   const branch = model.velocities.length;
@@ -116,7 +117,7 @@ export function surveyTimeTerms(
   let refusal = '';
   for (const pairs of shared.length > 0 ? [shared, []] : [[]]) {
     try {
-      solved = { result: timeTerms(rows, { constraint: pairs.length > 0 ? { kind: 'co-located', pairs } : { kind: 'equal-sums' } }), shared: pairs };
+      solved = { result: timeTerms(rows, { constraint: pairs.length > 0 ? { kind: 'co-located', pairs } : { kind: 'equal-sums' }, gradient }), shared: pairs };
       break;
     } catch (error) {
       if (!(error instanceof RangeError)) throw error;

@@ -65,6 +65,8 @@ function optionFields(number: (schema: z.ZodNumber) => z.ZodType<number>, text: 
     earthModel: z.enum(['auto', 'flat', 'spherical']).optional(),
     /** Solve the time-term method on the deepest refractor (default true). */
     timeTerms: fromQuery(booleanFromText, z.boolean()).optional(),
+    /** Add the velocity-gradient term to the time-term model (default false). */
+    timeTermGradient: fromQuery(booleanFromText, z.boolean()).optional(),
   };
 }
 

@@ -79,3 +79,40 @@ describe('time terms over a crustal line with Moho relief', () => {
     expect(off.options.timeTerms).toBe(false);
   });
 });
+
+describe('time terms with the velocity-gradient term (a diving Pn)', () => {
+  // Below the Moho the velocity rises linearly, v = v₀ + g·z: the refracted arrival dives, and its
+  // time beyond the delays is (2/g)·asinh(g·Δ/(2v₀)) (the linear-gradient travel time for surface
+  // ends, e.g. Telford et al. 1990; recalled from memory, checked here against its own series
+  // Δ/v₀ − g²Δ³/(24v₀³) to first order), not Δ/v₀.
+  const G = 0.004; // 1/s: 4 m/s per km below the Moho (common practice: 0.002–0.005 for the uppermost mantle)
+  const diving = (distance: number) => (2 / G) * Math.asinh((G * distance) / (2 * VN));
+  it('the formula and its series agree to first order (sanity of the oracle)', () => {
+    const x = 300_000;
+    const series = x / VN - (G ** 2 * x ** 3) / (24 * VN ** 3);
+    expect(Math.abs(diving(x) - series)).toBeLessThan(1e-3);
+  });
+
+  it('recovers the gradient within 3 SE and resolves it from zero; without the option the term is absent', () => {
+    const normal = seededNormal(24);
+    const rows = ['shot,source_x_km,receiver,receiver_x_km,time_s,sigma_s,branch'];
+    SHOTS_KM.forEach((shotKm, k) => {
+      for (const stationKm of STATIONS_KM) {
+        const distance = Math.abs(stationKm - shotKm) * 1000;
+        if (distance === 0) continue;
+        const pg = distance / V1;
+        const pn = diving(distance) + (mohoAt(shotKm) + mohoAt(stationKm)) * Q;
+        rows.push([`S${k + 1}`, shotKm, `R${stationKm.toFixed(1)}`, stationKm, (Math.min(pg, pn) + 0.02 * normal()).toFixed(3), 0.02, pn < pg ? 2 : 1].join(','));
+      }
+    });
+    const outcome = readPickTable(rows.join('\n'));
+    if (!outcome.ok) throw new Error('table refused');
+    const withGradient = InterpretationSchema.parse(interpret(outcome.value, { earthModel: 'flat', timeTermGradient: true })).timeTerms!;
+    expect(withGradient.velocityGradient).not.toBeNull();
+    expectWithin(withGradient.velocityGradient!, G, 3 * withGradient.velocityGradientSE!, 'velocity gradient below the Moho, 1/s');
+    expect(withGradient.velocityGradient! / withGradient.velocityGradientSE!).toBeGreaterThan(3);
+    expectWithin(withGradient.velocity, VN / 1000, 3 * withGradient.velocitySE, 'v₀ at the top of the mantle');
+    const without = interpret(outcome.value, { earthModel: 'flat' }).timeTerms!;
+    expect(without.velocityGradient).toBeNull();
+  });
+});
