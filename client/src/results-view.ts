@@ -218,7 +218,9 @@ export function crustalProfileResults(result: Interpretation, printable: boolean
     layers.rows.length > 0 ? resultTable(layers, 'spherical-layer-table', printable) : null,
     offLine.rows.length > 0 ? resultTable(offLine, 'off-line-table', printable) : null,
     terms === null ? null : h('p', { class: 'time-term-summary' }, terms),
-    stations.rows.length > 0 ? resultTable(stations, 'station-depth-table', printable) : null,
+    // On engineering lines the delay-time sections give the depth under every receiver; the station
+    // table of the time terms is for crustal profiles (the JSON has it either way).
+    stations.rows.length > 0 && result.units.scale === 'crustal' ? resultTable(stations, 'station-depth-table', printable) : null,
   );
 }
 

@@ -18,7 +18,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import type { Interpretation } from '../../lib/interpretation/shape.js';
-import { FORWARD_MISFIT_SIGMAS, forwardMisfitAllowance } from '../../lib/interpretation/reversed-profile.js';
+import { FORWARD_CHECK_FINENESS, FORWARD_MISFIT_SIGMAS, forwardMisfitAllowance } from '../../lib/interpretation/reversed-profile.js';
 import { seededNormal } from '../../lib/random.js';
 import { gridFirstArrivals } from '../oracles/grid-first-arrivals.js';
 import { range } from '../helpers/synthetic-survey.js';
@@ -87,7 +87,8 @@ describe('forward check at the shots beyond the sections: undulating refractor (
     expect(misfitShots(result)).toEqual([]);
     // The grid: finer than the default min(2.5 m / 2, ≈10 m / 8) = 1.25 m (forward-check.ts), as far as the
     // per-shot node budget allows (FORWARD_CHECK_FINENESS), and coarsened back silently while still finer.
-    expect(check.grid.spacing).toBeLessThan(1.25 / 2);
+    expect(FORWARD_CHECK_FINENESS).toBeGreaterThan(1);
+    expect(check.grid.spacing).toBeLessThanOrEqual(1.25 / FORWARD_CHECK_FINENESS);
     expect(check.notes.filter((note) => note.includes('coarsened'))).toEqual([]);
   });
 
@@ -168,8 +169,8 @@ describe('forward check with ground relief and a datum: shots beyond the section
         // bound used in tests/interpret/reversed-profiles.test.ts for the same model without a datum.
         for (const [shot] of shots) expect(rmsOf(result, shot), `shot ${shot}, datum ${datumElevation}`).toBeLessThan(0.5);
         // The module rule worked by hand: min(2.5 m / 2, mean depth below ground ≈ 12 m / 8) = 1.25 m, refined
-        // FORWARD_CHECK_FINENESS = 4 times (the node budget allows: about 600 × 60 nodes).
-        expect(result.forwardCheck!.grid.spacing).toBe(0.3125);
+        // FORWARD_CHECK_FINENESS times (the node budget allows: at most about 600 × 60 nodes).
+        expect(result.forwardCheck!.grid.spacing).toBe(1.25 / FORWARD_CHECK_FINENESS);
       }
     });
   }
