@@ -53,6 +53,9 @@ export const REFERENCES = {
   KennettEngdahlBuland1995: 'Kennett B.L.N., Engdahl E.R., Buland R. 1995. Constraints on seismic velocities in the Earth from traveltimes. Geophysical Journal International 122.',
   DziewonskiAnderson1981: 'Dziewonski A.M., Anderson D.L. 1981. Preliminary reference Earth model. Physics of the Earth and Planetary Interiors 25.',
   Mooney2002: 'Mooney W.D., Prodehl C., Pavlenkova N.I. 2002. Seismic velocity structure of the continental lithosphere from controlled source data. In: International Handbook of Earthquake and Engineering Seismology, Part A.',
+  Pullan1990: 'Pullan S.E. 1990. Recommended standard for seismic (/radar) data files in the personal computer environment. Geophysics 55.',
+  SEGY2002: 'Norris M.W., Faichney A.K. (eds.) 2002. SEG Y rev 1 data exchange format. Society of Exploration Geophysicists.',
+  SEGY2017: 'Hagelund R., Levin S.A. (eds.) 2017. SEG-Y_r2.0: SEG-Y revision 2.0 data exchange format. Society of Exploration Geophysicists (editors as recalled; verify).',
 } as const;
 
 export type ReferenceKey = keyof typeof REFERENCES;
