@@ -65,7 +65,12 @@ export interface InterpretOptions {
   readonly forwardCheck?: boolean;
   /** Earth model for the layer depths: `auto` (default: a sphere where offsets are long enough for curvature to matter), `flat` or `spherical`. */
   readonly earthModel?: EarthModelChoice;
-  /** Solve the time-term method on the deepest refractor (shot and station delays, depth under every station). Default true. */
+  /**
+   * Solve the time-term method on the deepest refractor (shot and station delays, depth under every
+   * station). Default: on for crustal tables (km, or latitude/longitude), where it is the standard
+   * reading of Pn; off for engineering lines, whose delay-time sections already give the depth
+   * under every receiver and whose shots seldom stand at receivers to tie the delays.
+   */
   readonly timeTerms?: boolean;
   /** Add the refractor's velocity-gradient term (−κΔ³, a diving wave below the refractor) to the time-term model. Default false. */
   readonly timeTermGradient?: boolean;
@@ -129,7 +134,7 @@ export interface SurveyResult {
 }
 
 export function interpret(pickSet: PickSet, options: InterpretOptions = {}): Interpretation {
-  const settings = { ...DEFAULT_OPTIONS, ...definedOnly(options) };
+  const settings = { ...DEFAULT_OPTIONS, ...definedOnly(options), timeTerms: options.timeTerms ?? pickSet.suggestedScale === 'crustal' };
   const scale = options.scale ?? pickSet.suggestedScale;
   // Geographic tables: shots and stations placed on the best-fitting profile line, every offset the
   // true geodesic distance (`geodesy/place-on-line.ts`); the rest of the pipeline works along it.

@@ -4,7 +4,7 @@
  *
  *   slopebreak interpret FILE [--json] [--robust | --fit METHOD] [--bootstrap N] [--seed S]
  *                             [--scale engineering|crustal] [--pair A:B]... [--datum ELEV]
- *                             [--no-forward-check] [--earth auto|flat|spherical] [--no-time-terms]
+ *                             [--no-forward-check] [--earth auto|flat|spherical] [--time-terms | --no-time-terms]
  *   slopebreak schema            print the JSON Schema of the interpretation
  *   slopebreak --help | --version
  *
@@ -54,8 +54,9 @@ interpret options:
   --no-forward-check     skip the grid forward check of the depth section
   --earth MODEL          auto (default: a spherical earth where the offsets are long enough for
                          curvature to matter), flat or spherical
-  --no-time-terms        skip the time-term inversion (shot and station delays on the deepest
-                         refractor, and its depth under every station)
+  --time-terms           solve the time-term method on the deepest refractor (shot and station
+                         delays, its depth under every station); default on for crustal tables
+  --no-time-terms        skip it
   --time-term-gradient   add a velocity gradient below the refractor to the time-term model
                          (t = a + b + Δ/V − κΔ³; the gradient g = √(24κV³) is reported)
 
@@ -97,6 +98,7 @@ function runInterpret(args: readonly string[]): number {
       'no-forward-check': { type: 'boolean' },
       earth: { type: 'string' },
       'no-time-terms': { type: 'boolean' },
+      'time-terms': { type: 'boolean' },
       'time-term-gradient': { type: 'boolean' },
     },
   });
@@ -118,6 +120,7 @@ function runInterpret(args: readonly string[]): number {
   if (values.fit !== undefined && !fitNames.includes(values.fit as FitMethod)) {
     throw new UsageError(`--fit takes one of ${fitNames.join(', ')}, got "${values.fit}"`);
   }
+  if (values['time-terms'] && values['no-time-terms']) throw new UsageError('--time-terms and --no-time-terms contradict each other; give one');
   if (values.robust && values.fit !== undefined && values.fit !== 'huber') {
     throw new UsageError('--robust means --fit huber; give one or the other');
   }
@@ -162,7 +165,7 @@ function runInterpret(args: readonly string[]): number {
     datumElevation: datumElevation ?? null,
     forwardCheck: !values['no-forward-check'],
     earthModel: values.earth as (typeof earthModels)[number] | undefined,
-    timeTerms: !values['no-time-terms'],
+    timeTerms: values['no-time-terms'] ? false : values['time-terms'] ? true : undefined,
     timeTermGradient: values['time-term-gradient'] === true,
     sourceName: basename(file),
     softwareVersion: softwareVersion(),

@@ -34,6 +34,19 @@ describe('crustal options of slopebreak interpret', () => {
     expect(gradient.timeTerms).not.toBeNull();
   });
 
+  it('solves time terms by default on crustal tables only; --time-terms turns them on for an engineering line (common practice: Pn delays are the crustal reading; engineering lines use delay-time sections)', () => {
+    const engineering = 'sample-surveys/millbrook-quarry-bedrock.csv';
+    const plain = JSON.parse(slopebreak('interpret', engineering, '--json').stdout) as Interpretation;
+    expect(plain.options.timeTerms).toBe(false);
+    expect(plain.timeTerms).toBeNull();
+    const asked = JSON.parse(slopebreak('interpret', engineering, '--json', '--time-terms').stdout) as Interpretation;
+    expect(asked.options.timeTerms).toBe(true);
+    expect(asked.timeTerms).not.toBeNull();
+    const both = slopebreak('interpret', engineering, '--time-terms', '--no-time-terms');
+    expect(both.status).toBe(2);
+    expect(both.stderr).toContain('contradict');
+  });
+
   it('refuses an unknown earth model with exit 2 and the choices', () => {
     const run = slopebreak('interpret', SAMPLE, '--earth', 'round');
     expect(run.status).toBe(2);
