@@ -105,6 +105,7 @@ import type { Estimate } from './dipping-layer.js';
 import { formatQuantity } from '../checks/wording.js';
 import { chiSquareSurvival } from '../stats/chi-square.js';
 import { lsqr, LSQR_STOP_REASONS, type LinearOperator, type LsqrStop } from '../stats/lsqr.js';
+import { unionFind } from '../stats/union-find.js';
 
 // ---------------------------------------------------------------- public types
 
@@ -313,32 +314,6 @@ interface Problem {
   readonly slownessFree: boolean;
   readonly fixedSlowness: number;
   readonly gradient: boolean;
-}
-
-function unionFind(size: number): { find: (node: number) => number; union: (a: number, b: number) => boolean } {
-  const parent = new Int32Array(size);
-  for (let node = 0; node < size; node += 1) parent[node] = node;
-  const find = (node: number): number => {
-    let root = node;
-    while (parent[root] !== root) root = parent[root]!;
-    let current = node;
-    while (parent[current] !== root) {
-      const next = parent[current]!;
-      parent[current] = root;
-      current = next;
-    }
-    return root;
-  };
-  return {
-    find,
-    union(a, b) {
-      const rootA = find(a);
-      const rootB = find(b);
-      if (rootA === rootB) return false;
-      parent[rootA] = rootB;
-      return true;
-    },
-  };
 }
 
 /** k-th smallest of values[0…length−1] by Hoare quickselect (median-of-three pivots); reorders `values`. */

@@ -31,6 +31,7 @@ import type { Estimate } from '../depth/dipping-layer.js';
 import { timeTerms, type CoLocatedPair, type TimeTermResult } from '../depth/time-term.js';
 import { timeTermDepths, type TimeTermDepth } from '../depth/time-term-depth.js';
 import { median } from '../branches/median.js';
+import { unionFind } from '../stats/union-find.js';
 import type { EarthCurvature } from './earth-curvature.js';
 import type { CombinedLayers } from './survey-layers.js';
 
@@ -82,7 +83,9 @@ export function surveyTimeTerms(
       const pick = pickSet.picks[sidePicks.pickIndices[member]!]!;
       const station = stationKey(pick.receiver, pick.receiverX);
       rows.push({ shot: pick.shot, station, distance: sidePicks.offsets[member]!, time: sidePicks.times[member]!, sigma: pick.sigma });
-      positions.set(station, [...(positions.get(station) ?? []), pick.receiverX]);
+      const xs = positions.get(station);
+      if (xs) xs.push(pick.receiverX);
+      else positions.set(station, [pick.receiverX]);
       if (pick.receiverElevation !== null) elevations.set(station, pick.receiverElevation);
     }
   }
@@ -162,7 +165,8 @@ export function surveyTimeTerms(
     notes.push(`${coLocated.length === 0 ? 'no shot stands at a station' : 'the shots that stand at stations do not tie every part of the shot–station graph'}, so the split of each delay between shot and station rests on the constraint Σa = Σb: the depths under the stations carry that choice — add a station at a shot point, or a borehole depth, to tie them down`);
   }
   if (result.rejectedRows.length > 0) {
-    notes.push(`${result.rejectedRows.length} pick${result.rejectedRows.length === 1 ? '' : 's'} left out as more than 3 robust SDs off the time-term model (the largest: shot ${worst(result).shot} at ${worst(result).station}, ${(worst(result).residual * 1000).toFixed(0)} ms)`);
+    const largest = result.rejectedRows.reduce((worst, row) => (Math.abs(row.residual) > Math.abs(worst.residual) ? row : worst));
+    notes.push(`${result.rejectedRows.length} pick${result.rejectedRows.length === 1 ? '' : 's'} left out as more than 3 robust SDs off the time-term model (the largest: shot ${largest.shot} at ${largest.station}, ${(largest.residual * 1000).toFixed(0)} ms)`);
   }
   const refused = stations.filter((entry) => !entry.depth.ok);
   if (refused.length > 0) notes.push(`${refused.length} station${refused.length === 1 ? '' : 's'} got no depth: ${refused[0]!.depth.ok ? '' : refused[0]!.depth.message}`);
@@ -173,28 +177,15 @@ export function surveyTimeTerms(
 }
 
 /** Connected components of the shot–station graph: a label per `shot:id` and `station:id`. */
-function components(rows: readonly { shot: string; station: string }[]): Map<string, string> {
-  const parent = new Map<string, string>();
-  const find = (node: string): string => {
-    let root = node;
-    while (parent.get(root) !== root) root = parent.get(root)!;
-    let walk = node;
-    while (parent.get(walk) !== root) {
-      const next = parent.get(walk)!;
-      parent.set(walk, root);
-      walk = next;
-    }
-    return root;
+function components(rows: readonly { shot: string; station: string }[]): Map<string, number> {
+  const index = new Map<string, number>();
+  const node = (key: string) => {
+    let found = index.get(key);
+    if (found === undefined) index.set(key, (found = index.size));
+    return found;
   };
-  for (const row of rows) {
-    const [shot, station] = [`shot:${row.shot}`, `station:${row.station}`];
-    if (!parent.has(shot)) parent.set(shot, shot);
-    if (!parent.has(station)) parent.set(station, station);
-    parent.set(find(shot), find(station));
-  }
-  return new Map([...parent.keys()].map((node) => [node, find(node)]));
-}
-
-function worst(result: TimeTermResult) {
-  return result.rejectedRows.reduce((largest, row) => (Math.abs(row.residual) > Math.abs(largest.residual) ? row : largest));
+  const pairs = rows.map((row) => [node(`shot:${row.shot}`), node(`station:${row.station}`)] as const);
+  const sets = unionFind(index.size);
+  for (const [shot, station] of pairs) sets.union(shot, station);
+  return new Map([...index.entries()].map(([key, at]) => [key, sets.find(at)]));
 }
