@@ -56,6 +56,13 @@ export const REFERENCES = {
   Pullan1990: 'Pullan S.E. 1990. Recommended standard for seismic (/radar) data files in the personal computer environment. Geophysics 55.',
   SEGY2002: 'Norris M.W., Faichney A.K. (eds.) 2002. SEG Y rev 1 data exchange format. Society of Exploration Geophysicists.',
   SEGY2017: 'Hagelund R., Levin S.A. (eds.) 2017. SEG-Y_r2.0: SEG-Y revision 2.0 data exchange format. Society of Exploration Geophysicists (editors as recalled; verify).',
+  Butterworth1930: 'Butterworth S. 1930. On the theory of filter amplifiers. Experimental Wireless and the Wireless Engineer 7 (as recalled; verify).',
+  OppenheimSchafer2010: 'Oppenheim A.V., Schafer R.W. 2010. Discrete-Time Signal Processing, 3rd ed.',
+  HanWongBancroft2009: 'Han L., Wong J., Bancroft J.C. 2009. Time picking and random noise reduction on microseismic data. CREWES Research Report 21.',
+  Maeda1985: 'Maeda N. 1985. A method for reading and checking phase times in autoprocessing system of seismic wave data. Zisin (Journal of the Seismological Society of Japan) 38.',
+  BurnhamAnderson2002: 'Burnham K.P., Anderson D.R. 2002. Model Selection and Multimodel Inference, 2nd ed.',
+  Yilmaz2001: 'Yilmaz Ö. 2001. Seismic Data Analysis. Society of Exploration Geophysicists.',
+  Aldridge1990: 'Aldridge D.F. 1990. The Berlage wavelet. Geophysics 55 (as recalled; verify).',
 } as const;
 
 export type ReferenceKey = keyof typeof REFERENCES;

@@ -20,6 +20,7 @@ import { healthRoutes } from './routes/health.js';
 import { serviceIndexRoutes } from './routes/service-index.js';
 import { interpretationRoutes } from './routes/interpretations.js';
 import { pickRoutes } from './routes/picks.js';
+import { gatherRoutes } from './routes/gathers.js';
 import { surveyRoutes } from './routes/surveys.js';
 import { openDatabase } from './storage/database.js';
 import { createSurveyStore, type SurveyStore } from './storage/survey-store.js';
@@ -109,6 +110,7 @@ export function createApp(configInput: ServerConfigInput, deps: AppDeps = {}): E
   app.use(serviceIndexRoutes(context));
   app.use(surveyRoutes(context));
   app.use(pickRoutes(context));
+  app.use(gatherRoutes(context));
   app.use(interpretationRoutes(context));
 
   app.use(unknownRoute);

@@ -2,7 +2,10 @@
 /**
  * The slopebreak command line.
  *
- *   slopebreak interpret FILE [--json] [--robust | --fit METHOD] [--bootstrap N] [--seed S]
+ *   slopebreak pick GATHER... [--out FILE] [--band LOW-HIGH] [--agc SECONDS] [--normalise]
+ *                             [--estimator sta-lta|energy-ratio] [--no-consistency]
+ *                             [--shot NAME] [--source-x X] [--first-receiver-x X --receiver-spacing DX]
+ *   slopebreak interpret FILE... [--json] [--robust | --fit METHOD] [--bootstrap N] [--seed S]
  *                             [--scale engineering|crustal] [--pair A:B]... [--datum ELEV]
  *                             [--no-forward-check] [--earth auto|flat|spherical] [--time-terms | --no-time-terms]
  *   slopebreak schema            print the JSON Schema of the interpretation
@@ -12,12 +15,18 @@
  * from it (the reasons are on stderr); 2 usage error; 3 internal error (a bug). A closed output pipe
  * ends the command quietly.
  */
-import { existsSync, readFileSync, realpathSync, statSync } from 'node:fs';
+import { closeSync, existsSync, openSync, readFileSync, readSync, realpathSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { basename } from 'node:path';
 import { parseArgs } from 'node:util';
-import { readPickTable } from '../lib/picks/index.js';
+import { readPickTable, writePickTable, type Pick, type PickSet } from '../lib/picks/index.js';
+import { GATHER_SNIFF_BYTES, identifyGather } from '../lib/gathers/formats.js';
+import { pickSetOf } from '../lib/gathers/gather-picks.js';
+import type { GeometryCorrection } from '../lib/gathers/shot-gathers.js';
+import type { PickingOptions } from '../lib/picking/index.js';
+import { DISPLAY_UNITS } from '../lib/units.js';
+import { pickGatherPath } from './gather-paths.js';
 import { formatProblem } from '../lib/problems.js';
 import { interpret } from '../lib/interpret.js';
 import { interpretationJsonSchema } from '../lib/interpretation/shape.js';
@@ -32,7 +41,10 @@ import { backupDatabase } from './storage/backup.js';
 const USAGE = `slopebreak — seismic-refraction interpretation
 
 usage:
-  slopebreak interpret FILE [options]   interpret a pick table (CSV) and print a summary
+  slopebreak interpret FILE... [options]   interpret a pick table (CSV), or shot gathers (SEG-2,
+                                        SEG-Y) picked first, and print a summary
+  slopebreak pick GATHER... [options]   pick the first breaks of shot gathers (SEG-2, SEG-Y) and
+                                        write them as a pick table with a sigma column
   slopebreak serve [serve options]      run the office service (HTTP API) over a data folder
   slopebreak backup --data DIR --to FILE   write a consistent copy of the service's database
   slopebreak schema                     print the JSON Schema of the interpretation
@@ -60,13 +72,25 @@ interpret options:
   --time-term-gradient   add a velocity gradient below the refractor to the time-term model
                          (t = a + b + Δ/V − κΔ³; the gradient g = √(24κV³) is reported)
 
+pick options (also taken by interpret when it is given gathers):
+  --out FILE             write the pick table to FILE (default: standard output)
+  --band LOW-HIGH        band-pass the traces before picking, corners in Hz (e.g. 20-250)
+  --agc SECONDS          automatic gain control with this window before picking (e.g. 0.05)
+  --normalise            scale every trace to its largest sample before picking
+  --estimator NAME       first estimate: sta-lta or energy-ratio (default from the picker)
+  --no-consistency       keep picks that disagree with their neighbouring traces
+  --shot NAME            name the shot (one gather file of one shot)
+  --source-x X           source position along the line, metres (one shot; --source-x=-8 for a negative one)
+  --first-receiver-x X   first trace's receiver position, metres (with --receiver-spacing)
+  --receiver-spacing DX  distance between consecutive traces' receivers, metres
+
 serve options:
   --host H               interface to listen on (default 127.0.0.1; 0.0.0.0 opens it to the office network)
   --port P               TCP port (default 8080; 0 picks a free one)
   --data DIR             folder of the database (default .slopebreak-data)
   --token T              access token for writes from other machines (default: generated on first start)
   --lock-reads           require the token for reads from other machines too
-  --samples DIR          load the pick tables in DIR as surveys when the database is empty
+  --samples DIR          load the pick tables and gathers in DIR as surveys when the database is empty
   --host-name NAME       a DNS name colleagues use for this machine (repeatable); other names get 421
 `;
 
@@ -80,11 +104,150 @@ function positiveInteger(value: string | undefined, option: string, minimum: num
   return Number(value);
 }
 
+/** Options `pick` takes, and `interpret` too when it is given gathers. */
+const PICK_OPTIONS = {
+  out: { type: 'string' },
+  band: { type: 'string' },
+  agc: { type: 'string' },
+  normalise: { type: 'boolean' },
+  estimator: { type: 'string' },
+  'no-consistency': { type: 'boolean' },
+  shot: { type: 'string' },
+  'source-x': { type: 'string' },
+  'first-receiver-x': { type: 'string' },
+  'receiver-spacing': { type: 'string' },
+} as const;
+
+type PickOptionValues = { [name in keyof typeof PICK_OPTIONS]?: (typeof PICK_OPTIONS)[name]['type'] extends 'boolean' ? boolean : string };
+
+function metres(value: string | undefined, option: string): number | undefined {
+  if (value === undefined) return undefined;
+  if (!/^-?\d+(\.\d+)?$/.test(value.trim())) throw new UsageError(`${option} takes metres, e.g. 12.5, got "${value}"`);
+  return Number(value);
+}
+
+function pickSettings(values: PickOptionValues): { correction: GeometryCorrection; picking: Partial<PickingOptions> } {
+  let bandPass: PickingOptions['bandPass'] | undefined;
+  if (values.band !== undefined) {
+    const match = /^(\d+(?:\.\d+)?)-(\d+(?:\.\d+)?)$/.exec(values.band.trim());
+    if (match === null || Number(match[1]) <= 0 || Number(match[1]) >= Number(match[2])) {
+      throw new UsageError(`--band takes LOW-HIGH in Hz with 0 < LOW < HIGH, e.g. 20-250, got "${values.band}"`);
+    }
+    bandPass = { low: Number(match[1]), high: Number(match[2]) };
+  }
+  let gain: PickingOptions['gain'] | undefined;
+  if (values.agc !== undefined) {
+    if (!/^\d+(\.\d+)?$/.test(values.agc.trim()) || Number(values.agc) <= 0) throw new UsageError(`--agc takes a window in seconds, more than 0, e.g. 0.05, got "${values.agc}"`);
+    gain = { window: Number(values.agc) };
+  }
+  if (values.estimator !== undefined && values.estimator !== 'sta-lta' && values.estimator !== 'energy-ratio') {
+    throw new UsageError(`--estimator takes sta-lta or energy-ratio, got "${values.estimator}"`);
+  }
+  const firstReceiverX = metres(values['first-receiver-x'], '--first-receiver-x');
+  const receiverSpacing = metres(values['receiver-spacing'], '--receiver-spacing');
+  if ((firstReceiverX === undefined) !== (receiverSpacing === undefined)) throw new UsageError('--first-receiver-x and --receiver-spacing go together; give both or neither');
+  if (receiverSpacing === 0) throw new UsageError('--receiver-spacing cannot be 0');
+  const sourceX = metres(values['source-x'], '--source-x');
+  return {
+    correction: {
+      ...(values.shot !== undefined ? { shot: values.shot } : {}),
+      ...(sourceX !== undefined ? { sourceX } : {}),
+      ...(firstReceiverX !== undefined && receiverSpacing !== undefined ? { firstReceiverX, receiverSpacing } : {}),
+    },
+    picking: {
+      ...(bandPass !== undefined ? { bandPass } : {}),
+      ...(gain !== undefined ? { gain } : {}),
+      ...(values.normalise ? { normalise: true } : {}),
+      ...(values.estimator !== undefined ? { estimator: values.estimator as PickingOptions['estimator'] } : {}),
+      ...(values['no-consistency'] ? { consistency: false } : {}),
+    },
+  };
+}
+
+/**
+ * Pick every gather file; the pick set of them all, or null after saying on stderr why a file was
+ * refused. Per-shot counts go to stderr so that stdout stays the table (or the summary).
+ */
+function pickFiles(files: readonly string[], values: PickOptionValues): PickSet | null {
+  const { correction, picking } = pickSettings(values);
+  if (files.length > 1 && (correction.shot !== undefined || correction.sourceX !== undefined)) {
+    throw new UsageError('--shot and --source-x apply to one gather file of one shot; give one file');
+  }
+  const picks: Pick[] = [];
+  const seen = new Map<string, string>();
+  for (const file of files) {
+    const picked = pickGatherPath(file, correction, picking);
+    if (!picked.ok) {
+      process.stderr.write(`slopebreak: ${file} was refused; nothing was picked:\n`);
+      for (const problem of picked.problems) process.stderr.write(`  ${file}: ${problem.message}; ${problem.fix}\n`);
+      return null;
+    }
+    for (const warning of picked.warnings) process.stderr.write(`slopebreak: note: ${file}: ${warning.message}; ${warning.fix}\n`);
+    for (const shot of picked.shots) {
+      const other = seen.get(shot.shot);
+      if (other !== undefined) {
+        process.stderr.write(`slopebreak: shot "${shot.shot}" is in both ${other} and ${file}; name one with --shot (one file at a time) or correct the headers\n`);
+        return null;
+      }
+      seen.set(shot.shot, file);
+      process.stderr.write(`slopebreak: ${file}: shot ${shot.shot}: ${shot.traceCount} traces, ${shot.pickCount} picks (${shot.lowConfidence} low-confidence, ${shot.rejected} rejected or none found)\n`);
+    }
+    picks.push(...picked.picks);
+  }
+  const { pickSet, warnings } = pickSetOf(picks);
+  for (const warning of warnings) process.stderr.write(`slopebreak: note: ${warning.message}; ${warning.fix}\n`);
+  if (pickSet.picks.length === 0) {
+    process.stderr.write('slopebreak: no shot kept enough picks to make a pick table\n');
+    return null;
+  }
+  return pickSet;
+}
+
+function runPick(args: readonly string[]): number {
+  const { values, positionals } = parseArgs({ args: [...args], allowPositionals: true, options: PICK_OPTIONS });
+  if (positionals.length === 0) throw new UsageError('pick takes one or more gather files (SEG-2 or SEG-Y)');
+  const pickSet = pickFiles(positionals, values);
+  if (pickSet === null) return 1;
+  const table = writePickTable(pickSet, DISPLAY_UNITS[pickSet.suggestedScale]);
+  if (values.out === undefined) {
+    process.stdout.write(table);
+    return 0;
+  }
+  // Written whole to a temporary name and renamed: a reader never sees half a table.
+  const temporary = `${values.out}.partial-${process.pid}`;
+  try {
+    writeFileSync(temporary, table);
+    renameSync(temporary, values.out);
+  } catch (error) {
+    rmSync(temporary, { force: true });
+    process.stderr.write(`slopebreak: cannot write ${values.out}: ${(error as Error).message}; check the folder exists and is writable\n`);
+    return 1;
+  }
+  process.stderr.write(`slopebreak: ${pickSet.picks.length} picks of ${pickSet.shotIds.length} shots written to ${values.out}\n`);
+  return 0;
+}
+
+/** True when the file's leading bytes are a gather format (else it is read as a pick table). */
+function isGatherFile(path: string): boolean {
+  try {
+    const fd = openSync(path, 'r');
+    try {
+      const head = new Uint8Array(GATHER_SNIFF_BYTES);
+      return identifyGather(head.subarray(0, readSync(fd, head, 0, head.length, 0))).ok;
+    } finally {
+      closeSync(fd);
+    }
+  } catch {
+    return false;
+  }
+}
+
 function runInterpret(args: readonly string[]): number {
   const { values, positionals } = parseArgs({
     args: [...args],
     allowPositionals: true,
     options: {
+      ...PICK_OPTIONS,
       json: { type: 'boolean' },
       robust: { type: 'boolean' },
       fit: { type: 'string' },
@@ -102,7 +265,10 @@ function runInterpret(args: readonly string[]): number {
       'time-term-gradient': { type: 'boolean' },
     },
   });
-  if (positionals.length !== 1) throw new UsageError('interpret takes exactly one pick-table file');
+  if (positionals.length === 0) throw new UsageError('interpret takes one pick-table file, or one or more gather files');
+  const gathers = positionals.map(isGatherFile);
+  if (positionals.length > 1 && !gathers.every(Boolean)) throw new UsageError('interpret takes one pick-table file on its own; several files must all be gathers (SEG-2 or SEG-Y)');
+  if (values.out !== undefined) throw new UsageError('--out belongs to pick; interpret prints its result (use pick --out to keep the picks)');
   const reversedPairs = values.pair?.map((text) => {
     const parts = text.split(':');
     if (parts.length !== 2 || parts[0]!.trim() === '' || parts[1]!.trim() === '') {
@@ -116,6 +282,7 @@ function runInterpret(args: readonly string[]): number {
     datumElevation = Number(values.datum);
   }
   const file = positionals[0]!;
+  const sourceName = positionals.length === 1 ? basename(file) : `${basename(file)} and ${positionals.length - 1} more gather file(s)`;
   const fitNames: readonly FitMethod[] = ['least-squares', 'huber', 'theil-sen'];
   if (values.fit !== undefined && !fitNames.includes(values.fit as FitMethod)) {
     throw new UsageError(`--fit takes one of ${fitNames.join(', ')}, got "${values.fit}"`);
@@ -137,24 +304,17 @@ function runInterpret(args: readonly string[]): number {
   const maxBranches = positiveInteger(values['max-branches'], '--max-branches', 1);
   const minPicksPerBranch = positiveInteger(values['min-picks'], '--min-picks', 2);
 
-  let bytes: Buffer;
-  try {
-    if (!statSync(file).isFile()) throw Object.assign(new Error('not a regular file'), { code: 'EISDIR' });
-    bytes = readFileSync(file);
-  } catch (error) {
-    const code = (error as { code?: string }).code;
-    const reason = code === 'ENOENT' ? 'no such file' : code === 'EACCES' ? 'permission denied' : code === 'EISDIR' ? 'it is a folder' : (error as Error).message;
-    process.stderr.write(`slopebreak: cannot read ${file}: ${reason}; check the path\n`);
-    return 1;
+  let pickSet: PickSet;
+  if (gathers[0]) {
+    const picked = pickFiles(positionals, values);
+    if (picked === null) return 1;
+    pickSet = picked;
+  } else {
+    const read = readTableFile(file);
+    if (read === null) return 1;
+    pickSet = read;
   }
-  const outcome = readPickTable(bytes);
-  if (!outcome.ok) {
-    process.stderr.write(`slopebreak: ${file} was refused (${outcome.problems.length} problem(s)); nothing was interpreted:\n`);
-    for (const problem of outcome.problems) process.stderr.write(`  ${file}: ${formatProblem(problem)}\n`);
-    return 1;
-  }
-  for (const warning of outcome.warnings) process.stderr.write(`slopebreak: note: ${file}: ${formatProblem(warning)}\n`);
-  const result = interpret(outcome.value, {
+  const result = interpret(pickSet, {
     fitMethod,
     bootstrapReplicates,
     seed,
@@ -167,15 +327,37 @@ function runInterpret(args: readonly string[]): number {
     earthModel: values.earth as (typeof earthModels)[number] | undefined,
     timeTerms: values['no-time-terms'] ? false : values['time-terms'] ? true : undefined,
     timeTermGradient: values['time-term-gradient'] === true,
-    sourceName: basename(file),
+    sourceName,
     softwareVersion: softwareVersion(),
   });
   process.stdout.write(values.json ? `${JSON.stringify(result, null, 2)}\n` : formatSummary(result));
   if (result.layers.length === 0) {
-    process.stderr.write(`slopebreak: nothing could be interpreted from ${file}: no shot side has a branch that could be fitted (see the warnings)\n`);
+    process.stderr.write(`slopebreak: nothing could be interpreted from ${sourceName}: no shot side has a branch that could be fitted (see the warnings)\n`);
     return 1;
   }
   return 0;
+}
+
+/** Read a pick-table file, or say on stderr why not and return null. */
+function readTableFile(file: string): PickSet | null {
+  let bytes: Buffer;
+  try {
+    if (!statSync(file).isFile()) throw Object.assign(new Error('not a regular file'), { code: 'EISDIR' });
+    bytes = readFileSync(file);
+  } catch (error) {
+    const code = (error as { code?: string }).code;
+    const reason = code === 'ENOENT' ? 'no such file' : code === 'EACCES' ? 'permission denied' : code === 'EISDIR' ? 'it is a folder' : (error as Error).message;
+    process.stderr.write(`slopebreak: cannot read ${file}: ${reason}; check the path\n`);
+    return null;
+  }
+  const outcome = readPickTable(bytes);
+  if (!outcome.ok) {
+    process.stderr.write(`slopebreak: ${file} was refused (${outcome.problems.length} problem(s)); nothing was interpreted:\n`);
+    for (const problem of outcome.problems) process.stderr.write(`  ${file}: ${formatProblem(problem)}\n`);
+    return null;
+  }
+  for (const warning of outcome.warnings) process.stderr.write(`slopebreak: note: ${file}: ${formatProblem(warning)}\n`);
+  return outcome.value;
 }
 
 function runServe(args: readonly string[]): void {
@@ -249,6 +431,8 @@ export function main(argv: readonly string[]): number {
     switch (command) {
       case 'interpret':
         return runInterpret(rest);
+      case 'pick':
+        return runPick(rest);
       case 'serve':
         runServe(rest);
         return -1;

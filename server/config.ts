@@ -28,8 +28,13 @@ export const ConfigSchema = z.strictObject({
   lockReads: z.boolean().default(false),
   /** Largest uploaded file, in bytes; a larger one is refused with 413 naming this limit. */
   maxUploadBytes: z.number().int().min(1).default(DEFAULT_MAX_UPLOAD_BYTES),
-  /** Most files in one multipart upload; more are refused with 413. */
-  maxFilesPerUpload: z.number().int().min(1).default(1),
+  /**
+   * Largest upload request in all, bytes (several gather files in one request); a larger one is
+   * refused with 413 before it is read. Multipart uploads must give their length.
+   */
+  maxUploadRequestBytes: z.number().int().min(1).default(4 * DEFAULT_MAX_UPLOAD_BYTES),
+  /** Most files in one multipart upload (the shot gathers of a line); more are refused with 413. */
+  maxFilesPerUpload: z.number().int().min(1).default(200),
   /** Largest JSON request body, in bytes; a larger one is refused with 413. */
   jsonBodyLimit: z.number().int().min(1).default(DEFAULT_JSON_BODY_LIMIT),
   /** DNS names this machine answers to besides IP literals and `localhost` (requests naming another host get 421). */

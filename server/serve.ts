@@ -25,6 +25,7 @@ import { parseConfig, LOOPBACK_ADDRESSES, type ServerConfigInput } from './confi
 import { openDatabase } from './storage/database.js';
 import { createSurveyStore, type SurveyStore } from './storage/survey-store.js';
 import { interpretAndStore } from './revisions.js';
+import { pickUploadedGathers, type PickedUpload } from './gather-uploads.js';
 import { softwareVersion } from './version.js';
 
 /** The file in the data folder that keeps a generated access token. */
@@ -50,15 +51,55 @@ export interface ServeOptions extends ServerConfigInput {
   readonly logSink?: LogSink;
 }
 
+/** File names of SEG-Y and SEG-2 samples. */
+const SEGY_SAMPLE = /\.(sgy|segy)$/i;
+const SEG2_SAMPLE = /\.(sg2|seg2|dat)$/i;
+
+/**
+ * Loads a sample of shot gathers as a survey: a SEG-Y file, or a folder of SEG-2 files (one per
+ * shot). The picker's picks are its pick set, interpreted as revision 1. Returns false (after
+ * saying why) when the gathers were refused.
+ */
+function loadSampleGathers(store: SurveyStore, name: string, paths: readonly string[], say: (line: string) => void): boolean {
+  const files = paths.map((path) => ({ file: { fileName: basename(path), declaredType: '', bytes: new Uint8Array(readFileSync(path)) }, mediaType: 'application/octet-stream' }));
+  let picked: PickedUpload;
+  try {
+    picked = pickUploadedGathers(files, {}, [], Number.MAX_SAFE_INTEGER);
+  } catch (error) {
+    say(`Sample ${name} was not loaded: ${(error as Error).message}`);
+    return false;
+  }
+  const survey = store.createSurvey({ name, description: 'shot gathers, picked automatically', scale: picked.pickSet.suggestedScale });
+  store.addGatherUpload(survey.id, {
+    files: picked.files.map((entry) => ({
+      fileName: entry.fileName, mediaType: entry.mediaType, bytes: entry.file.bytes,
+      shots: entry.shots.map((shot) => ({ shotNumber: shot.shotNumber, shot: shot.shot, summaryJson: JSON.stringify(shot.summary) })),
+    })),
+    pickSetJson: JSON.stringify(picked.pickSet),
+  }, survey.version);
+  interpretAndStore(store, survey.id, picked.pickSet, { scale: picked.pickSet.suggestedScale }, { sourceName: name, softwareVersion: softwareVersion() });
+  return true;
+}
+
 /**
  * Loads every `.csv` pick table in `folder` as a survey (name from the file, description from its
- * first comment line) with a first interpretation as revision 1, when the store holds no survey
- * yet; a table the reader refuses is skipped and named. Returns how many were loaded.
+ * first comment line), every SEG-Y file and every sub-folder of SEG-2 files as a survey of shot
+ * gathers, each with a first interpretation as revision 1, when the store holds no survey yet; a
+ * file the readers refuse is skipped and named. Returns how many were loaded.
  */
 export function loadSampleSurveys(store: SurveyStore, folder: string, say: (line: string) => void): number {
   if (store.listSurveys({}).length > 0) return 0;
   let loaded = 0;
-  for (const name of readdirSync(folder).filter((entry) => entry.endsWith('.csv')).sort()) {
+  const entries = readdirSync(folder, { withFileTypes: true }).sort((a, b) => a.name.localeCompare(b.name));
+  for (const entry of entries) {
+    if (entry.isFile() && SEGY_SAMPLE.test(entry.name)) {
+      if (loadSampleGathers(store, entry.name.replace(SEGY_SAMPLE, ''), [join(folder, entry.name)], say)) loaded += 1;
+    } else if (entry.isDirectory()) {
+      const shots = readdirSync(join(folder, entry.name)).filter((name) => SEG2_SAMPLE.test(name)).sort();
+      if (shots.length > 0 && loadSampleGathers(store, entry.name, shots.map((name) => join(folder, entry.name, name)), say)) loaded += 1;
+    }
+  }
+  for (const name of entries.filter((entry) => entry.isFile() && entry.name.endsWith('.csv')).map((entry) => entry.name)) {
     const bytes = readFileSync(join(folder, name));
     const outcome = readPickTable(bytes);
     if (!outcome.ok) {

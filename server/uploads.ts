@@ -1,13 +1,14 @@
 /**
  * Uploads: a file arrives as one multipart field (`file`) or as the raw request body (text/csv), is
  * held in memory within the configured limits, and is recognised by its content, never by its name
- * or declared type. A registry of sniffers tries each known kind; today that is the pick table, and
- * SEG-2 / SEG-Y gather sniffers join `UPLOAD_SNIFFERS` when their readers exist. An upload no sniffer
- * accepts is refused with 415 naming what was found. Nothing here touches the store, so a refused
+ * or declared type. A registry of sniffers tries each known kind: a shot gather (any format of
+ * lib/gathers/formats.ts: SEG-2, SEG-Y) or a pick table. An upload no sniffer accepts is refused
+ * with 415 naming what each found. Nothing here touches the store, so a refused
  * upload leaves nothing behind.
  */
 import express, { type Request, type RequestHandler } from 'express';
 import multer from 'multer';
+import { GATHER_SNIFF_BYTES, identifyGather } from '../lib/gathers/formats.js';
 import { ApiError } from './errors.js';
 
 /** An upload held in memory, before it is recognised. */
@@ -20,12 +21,14 @@ export interface ReceivedFile {
 }
 
 /** A kind of upload the server can read. */
-export type UploadKind = 'pick-table';
+export type UploadKind = 'pick-table' | 'shot-gather';
 
 export interface UploadKindInfo {
   readonly kind: UploadKind;
   /** Media type stored with the file and sent when it is downloaded. */
   readonly mediaType: string;
+  /** The gather format, for a shot gather. */
+  readonly format?: string;
 }
 
 /** A sniffer's answer: the kind, or the reason it is not this kind (in words, for the 415 message). */
@@ -76,8 +79,18 @@ export const pickTableSniffer: UploadSniffer = {
   },
 };
 
-/** Every sniffer, tried in order. Add gather sniffers (SEG-2, SEG-Y) here. */
-export const UPLOAD_SNIFFERS: readonly UploadSniffer[] = [pickTableSniffer];
+/** The shot-gather sniffer: any format the gather registry recognises by its leading bytes. */
+export const shotGatherSniffer: UploadSniffer = {
+  kind: 'shot-gather',
+  sniff(bytes) {
+    const identity = identifyGather(bytes.subarray(0, GATHER_SNIFF_BYTES));
+    if (!identity.ok) return { ok: false, reason: identity.reasons.join('; ') };
+    return { ok: true, info: { kind: 'shot-gather', mediaType: identity.format.mediaType, format: identity.format.name } };
+  },
+};
+
+/** Every sniffer, tried in order (binary formats first: their magic numbers are definite). */
+export const UPLOAD_SNIFFERS: readonly UploadSniffer[] = [shotGatherSniffer, pickTableSniffer];
 
 /** Recognise an upload, or throw the 415 naming what each sniffer found. */
 export function recogniseUpload(file: ReceivedFile, accepted: readonly UploadKind[], sniffers: readonly UploadSniffer[] = UPLOAD_SNIFFERS): UploadKindInfo {
@@ -90,8 +103,8 @@ export function recogniseUpload(file: ReceivedFile, accepted: readonly UploadKin
   }
   throw new ApiError({
     code: 'upload-type-unsupported', status: 415,
-    message: `the upload ${JSON.stringify(sanitiseFileName(file.fileName))} is not a pick table: found ${reasons.join('; ') || 'nothing this server reads'}; nothing was stored`,
-    fix: 'upload a UTF-8 CSV pick table whose header row has a shot column (see the pick-table columns in the README)',
+    message: `the upload ${JSON.stringify(sanitiseFileName(file.fileName))} is neither a shot gather nor a pick table: found ${reasons.join('; ') || 'nothing this server reads'}; nothing was stored`,
+    fix: 'upload SEG-2 or SEG-Y shot gathers as the recorder wrote them, or a UTF-8 CSV pick table whose header row has a shot column (see the README)',
     details: { accepted, found: reasons },
   });
 }
@@ -101,6 +114,7 @@ const RAW_BODY_TYPES = ['text/csv', 'text/plain', 'application/octet-stream'];
 
 export interface UploadSettings {
   readonly maxUploadBytes: number;
+  readonly maxUploadRequestBytes: number;
   readonly maxFilesPerUpload: number;
 }
 
@@ -132,7 +146,29 @@ export function receiveUpload(settings: UploadSettings): RequestHandler[] {
     });
   };
   const raw = express.raw({ type: RAW_BODY_TYPES, limit: settings.maxUploadBytes });
-  return [multipartOrFault, raw];
+  // Files are held in memory: bound the request as a whole, not only each file, before reading it.
+  const requestSize: RequestHandler = (request, _response, next) => {
+    const declared = request.get('content-length');
+    if (request.is('multipart/form-data') && declared === undefined) {
+      next(new ApiError({
+        code: 'upload-length-required', status: 411,
+        message: 'a multipart upload must give its length (Content-Length); nothing was stored',
+        fix: 'send the upload with a Content-Length header (browsers and curl -F do)',
+      }));
+      return;
+    }
+    if (declared !== undefined && Number(declared) > settings.maxUploadRequestBytes) {
+      next(new ApiError({
+        code: 'upload-request-too-large', status: 413,
+        message: `the upload request is ${declared} bytes, more than this server accepts in one request (${settings.maxUploadRequestBytes} bytes); nothing was stored`,
+        fix: 'send the files in several requests, or ask the operator to raise maxUploadRequestBytes',
+        details: { limit: 'maxUploadRequestBytes', maxBytes: settings.maxUploadRequestBytes },
+      }));
+      return;
+    }
+    next();
+  };
+  return [requestSize, multipartOrFault, raw];
 }
 
 /** Name given to a raw-body upload that names nothing. */
@@ -140,7 +176,7 @@ const RAW_BODY_NAME = 'upload.csv';
 
 /** The one file of an upload request (after `receiveUpload`), or a 400 saying how to send it. */
 export function receivedFile(request: Request): ReceivedFile {
-  const files = Array.isArray(request.files) ? request.files : [];
+  const files = receivedFiles(request);
   if (files.length > 1) {
     throw new ApiError({
       code: 'upload-one-file', status: 400,
@@ -148,11 +184,16 @@ export function receivedFile(request: Request): ReceivedFile {
       fix: 'send each file in its own request',
     });
   }
-  const file = files[0];
-  if (file !== undefined) return { fileName: file.originalname, declaredType: file.mimetype, bytes: new Uint8Array(file.buffer) };
+  return files[0]!;
+}
+
+/** Every file of an upload request (after `receiveUpload`; at least one), or a 400 saying how to send them. */
+export function receivedFiles(request: Request): ReceivedFile[] {
+  const files = Array.isArray(request.files) ? request.files : [];
+  if (files.length > 0) return files.map((file) => ({ fileName: file.originalname, declaredType: file.mimetype, bytes: new Uint8Array(file.buffer) }));
   if (Buffer.isBuffer(request.body) && request.body.length > 0) {
     const named = request.get('x-file-name');
-    return { fileName: named ?? RAW_BODY_NAME, declaredType: request.get('content-type') ?? '', bytes: new Uint8Array(request.body) };
+    return [{ fileName: named ?? RAW_BODY_NAME, declaredType: request.get('content-type') ?? '', bytes: new Uint8Array(request.body) }];
   }
   throw new ApiError({
     code: 'upload-missing', status: 400,

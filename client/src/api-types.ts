@@ -411,3 +411,68 @@ export interface UploadReply {
   readonly suggestedScale: Scale;
   readonly warnings: readonly TableProblem[];
 }
+
+/** One shot gather stored with a survey, as listed by GET /api/surveys/:id/gathers. */
+export interface GatherSummary {
+  /** Identifier within the survey: `<upload id>.<shot number in the file, from 1>`. */
+  readonly id: string;
+  readonly shot: string;
+  readonly fileName: string;
+  readonly format: 'SEG-2' | 'SEG-Y';
+  readonly traceCount: number;
+  /** Samples per trace as recorded (the longest trace). */
+  readonly sampleCount: number;
+  /** As recorded, seconds. */
+  readonly sampleInterval: number;
+  /** Source position along the line, metres. */
+  readonly sourceX: number;
+  /** Traces of this gather with a pick in the current pick set. */
+  readonly pickCount: number;
+}
+
+/** A trace prepared for display: decimated, filtered as for picking, scaled to at most 1 in magnitude. */
+export interface DisplayTrace {
+  readonly traceIndex: number;
+  /** The receiver identifier the trace's pick carries (`receiver` of the pick). */
+  readonly receiver: string;
+  readonly receiverX: number;
+  /** receiverX − sourceX, metres. */
+  readonly offset: number;
+  /** Samples from `GatherDisplay.startTime` every `GatherDisplay.sampleInterval`, each in [−1, 1]. */
+  readonly samples: readonly number[];
+}
+
+/** What the automatic picker made of one trace (whether or not the pick is in the pick set now). */
+export interface DisplayPick {
+  readonly traceIndex: number;
+  /** Index of this trace's pick in the current pick set, or null when the pick set has none for it. */
+  readonly pickIndex: number | null;
+  /** The current pick's time (s after the shot), or the picker's rejected candidate when pickIndex is null. */
+  readonly time: number | null;
+  readonly sigma: number | null;
+  /** The automatic picker's confidence in [0, 1] (null for a pick the user placed). */
+  readonly confidence: number | null;
+  readonly lowConfidence: boolean;
+  /** 'automatic', 'user' (moved or added by hand), 'rejected' (candidate kept out of the pick set) or 'removed'. */
+  readonly status: 'automatic' | 'user' | 'rejected' | 'removed' | 'none';
+  /** Why the picker doubted or rejected it, in words (null when it did not). */
+  readonly note: string | null;
+}
+
+/** GET /api/surveys/:id/gathers/:gatherId */
+export interface GatherDisplay {
+  readonly gather: GatherSummary;
+  readonly version: number;
+  readonly picksState: string | null;
+  /** Time of the first displayed sample after the shot, seconds. */
+  readonly startTime: number;
+  /** Interval of the displayed samples, seconds (the recorded one or a multiple of it). */
+  readonly sampleInterval: number;
+  readonly traces: readonly DisplayTrace[];
+  readonly picks: readonly DisplayPick[];
+}
+
+/** One hand edit of a pick (POST /api/surveys/:id/pick-edits). Times are seconds after the shot. */
+export type PickEdit =
+  | { readonly gatherId: string; readonly traceIndex: number; readonly time: number }
+  | { readonly gatherId: string; readonly traceIndex: number; readonly remove: true };

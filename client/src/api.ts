@@ -4,7 +4,7 @@
  * gave one) sent as a bearer header, and uploads with progress.
  */
 import type {
-  BranchEdit, CurrentPicks, Interpretation, Revision, RevisionSummary, Scale, Survey, TableProblem, UploadReply,
+  BranchEdit, CurrentPicks, GatherDisplay, GatherSummary, Interpretation, PickEdit, Revision, RevisionSummary, Scale, Survey, TableProblem, UploadReply,
 } from './api-types.js';
 
 /** An upload that has not finished after this long is given up, ms (a 50 MiB table over a slow office link). */
@@ -102,15 +102,22 @@ export const api = {
   /** Interpret the current picks as a new revision, with `options` (those of the revision being edited, to keep its scale and fit). */
   interpret: (id: string, version: number, options: Readonly<Record<string, unknown>> = {}) =>
     request<Revision & { result: Interpretation }>('POST', `${survey(id)}/interpretations`, { body: options, version }),
+  /** The shot gathers stored with a survey (none for a survey made from a pick table). */
+  listGathers: (id: string) => request<{ gathers: GatherSummary[] }>('GET', `${survey(id)}/gathers`).then((reply) => reply.gathers),
+  getGather: (id: string, gatherId: string) => request<GatherDisplay>('GET', `${survey(id)}/gathers/${encodeURIComponent(gatherId)}`),
+  /** Hand edits of picks on the gathers: a new pick set for the survey (409 when `version` is stale). */
+  addPickEdits: (id: string, edits: readonly PickEdit[], version: number) =>
+    request<{ version: number; pickCount: number; picksState: string | null }>('POST', `${survey(id)}/pick-edits`, { body: { edits, version }, version }),
   layersCsvUrl: (id: string, number: number) => `${survey(id)}/revisions/${number}/layers.csv`,
   picksCsvUrl: (id: string) => `${survey(id)}/picks.csv`,
 };
 
 /**
- * Upload a pick table to a survey (multipart, If-Match the survey version), reporting progress as
- * a fraction 0–1. XMLHttpRequest, because fetch reports no upload progress.
+ * Upload a pick table, or a set of shot-gather files, to a survey (multipart, one "file" field per
+ * file, If-Match the survey version), reporting progress as a fraction 0–1. XMLHttpRequest,
+ * because fetch reports no upload progress.
  */
-export function uploadPicks(id: string, file: File, version: number, onProgress: (fraction: number) => void): Promise<UploadReply> {
+export function uploadPicks(id: string, files: File | readonly File[], version: number, onProgress: (fraction: number) => void): Promise<UploadReply> {
   return new Promise((resolve, reject) => {
     const xhr = new XMLHttpRequest();
     xhr.open('POST', `${survey(id)}/picks`);
@@ -135,7 +142,7 @@ export function uploadPicks(id: string, file: File, version: number, onProgress:
     xhr.addEventListener('timeout', lost('took too long'));
     xhr.timeout = UPLOAD_TIMEOUT_MS;
     const form = new FormData();
-    form.append('file', file, file.name);
+    for (const file of files instanceof File ? [files] : files) form.append('file', file, file.name);
     xhr.send(form);
   });
 }

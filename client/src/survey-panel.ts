@@ -51,18 +51,19 @@ export class SurveyPanel {
     });
     this.list = h('ul', { class: 'survey-list', 'aria-label': 'Surveys' });
     this.fileInput = h('input', {
-      type: 'file', id: 'pick-file', accept: '.csv,.txt,.tsv,text/csv,text/plain', class: 'visually-hidden',
+      // Several files at once for shot gathers (one SEG-2 file per shot is common); the server tells them apart by content.
+      type: 'file', id: 'pick-file', multiple: true, accept: '.csv,.txt,.tsv,.dat,.sg2,.seg2,.sgy,.segy,text/csv,text/plain', class: 'visually-hidden',
       onchange: () => {
-        const file = this.fileInput.files?.[0];
-        if (file) void this.upload(file);
+        const files = [...(this.fileInput.files ?? [])];
+        if (files.length > 0) void this.upload(files);
         this.fileInput.value = '';
       },
     });
     // The file input sits inside its label, so the label shows the keyboard focus (:focus-within).
     const dropZone = h('label', { class: 'drop-zone', id: 'drop-zone' },
       this.fileInput,
-      h('span', { class: 'drop-title' }, 'New survey from a pick table'),
-      h('span', { class: 'drop-hint' }, 'Drop a CSV here, or press to choose one'),
+      h('span', { class: 'drop-title' }, 'New survey from a pick table or shot gathers'),
+      h('span', { class: 'drop-hint' }, 'Drop a CSV, or SEG-2 or SEG-Y files, here, or press to choose'),
     );
     dropZone.addEventListener('dragover', (event) => {
       event.preventDefault();
@@ -72,8 +73,8 @@ export class SurveyPanel {
     dropZone.addEventListener('drop', (event) => {
       event.preventDefault();
       dropZone.classList.remove('dragging');
-      const file = event.dataTransfer?.files[0];
-      if (file) void this.upload(file);
+      const files = [...(event.dataTransfer?.files ?? [])];
+      if (files.length > 0) void this.upload(files);
     });
     this.uploadState = h('div', { class: 'upload-state', id: 'upload-state', 'aria-live': 'polite' });
     this.element = h('aside', { class: 'survey-panel', 'aria-label': 'Surveys on this server' },
@@ -180,14 +181,23 @@ export class SurveyPanel {
     this.problemsHost.hidden = true;
   }
 
-  /** Create a survey from `file`, upload it with progress, interpret it; on refusal list the problems and delete the survey. */
-  async upload(file: File): Promise<void> {
+  /**
+   * Create a survey from `files` (a pick table, or shot-gather files sent together), upload them
+   * with progress, interpret them; on refusal list the problems and delete the survey. The survey
+   * is named after the first file.
+   */
+  async upload(files: File | readonly File[]): Promise<void> {
+    const all = files instanceof File ? [files] : [...files];
+    const first = all[0];
+    if (!first) return;
+    // What the messages below call the upload: the file, or the first file and how many more.
+    const file = all.length === 1 ? first : { name: `${first.name} and ${all.length - 1} more file${all.length === 2 ? '' : 's'}` };
     const progress = h('progress', { max: 1, value: 0, 'aria-label': `Uploading ${file.name}` });
     replaceChildren(this.uploadState, h('p', {}, `Uploading ${file.name}…`), progress);
     let survey: Survey | null = null;
     try {
-      survey = await api.createSurvey(surveyNameFromFile(file.name));
-      const reply = await uploadPicks(survey.id, file, survey.version, (fraction) => {
+      survey = await api.createSurvey(surveyNameFromFile(first.name));
+      const reply = await uploadPicks(survey.id, all, survey.version, (fraction) => {
         progress.value = fraction;
       });
       replaceChildren(this.uploadState, h('p', {}, `Read ${reply.pickCount} picks of ${reply.shotIds.length} shots; interpreting…`));

@@ -8,10 +8,11 @@
  * in it is always one a colleague can open.
  */
 import { api, downloadFromService, ServiceError, storeToken, storedToken } from './api.js';
-import type { BranchEdit, CurrentPicks, Revision, RevisionSummary, Survey } from './api-types.js';
+import type { BranchEdit, CurrentPicks, GatherSummary, PickEdit, Revision, RevisionSummary, Survey } from './api-types.js';
 import { effectiveEdits, inverseEdits } from './branch-editing.js';
 import { DepthView } from './depth-view.js';
 import { h, keepingFocus, replaceChildren } from './dom.js';
+import { GatherView } from './gather-view.js';
 import { shortDateTime } from './format.js';
 import { cautionList, crustalProfileResults, layerTable, referenceList, shotTable, surveyWarnings } from './results-view.js';
 import { parseRoute, paths, type Route } from './routes.js';
@@ -21,7 +22,7 @@ import { TravelTimeView } from './travel-time-view.js';
 /** How often the page asks whether a colleague made a newer revision, ms. */
 const REVISION_POLL_MS = 10_000;
 
-type ViewName = 'travel-times' | 'depth';
+type ViewName = 'travel-times' | 'depth' | 'gathers';
 
 const capitalised = (text: string) => text.charAt(0).toUpperCase() + text.slice(1);
 
@@ -43,6 +44,7 @@ export class Workspace {
   private readonly panel: SurveyPanel;
   private readonly travelTimes: TravelTimeView;
   private readonly depth: DepthView;
+  private readonly gatherView: GatherView;
   private readonly title: HTMLElement;
   private readonly revisionPicker: HTMLElement;
   private readonly tabs: HTMLElement;
@@ -57,6 +59,8 @@ export class Workspace {
   private revisions: RevisionSummary[] = [];
   private revision: Revision | null = null;
   private picks: CurrentPicks | null = null;
+  /** The open survey's shot gathers (none for a survey made from a pick table). */
+  private gathers: readonly GatherSummary[] = [];
   private view: ViewName = 'travel-times';
   private readonly undoSteps = new Map<string, UndoStep[]>();
   private openTicket = 0;
@@ -78,6 +82,10 @@ export class Workspace {
       fileStem: () => this.fileStem(),
     });
     this.depth = new DepthView(() => this.fileStem());
+    this.gatherView = new GatherView({
+      savePickEdits: (edits, version, description) => this.applyPickEdits(edits, version, description),
+      failed: (error, what) => this.fail(error, what),
+    });
     this.title = h('div', { class: 'survey-title', id: 'survey-title' });
     this.revisionPicker = h('div', { class: 'revision-picker' });
     this.tabs = h('nav', { class: 'view-tabs', 'aria-label': 'Views' });
@@ -166,12 +174,17 @@ export class Workspace {
     const stale = () => ticket !== this.openTicket;
     this.say('Loading…');
     try {
-      const [survey, revisions, picks] = await Promise.all([
+      const [survey, revisions, picks, gathers] = await Promise.all([
         api.getSurvey(id),
         api.listRevisions(id),
         // A survey without picks answers 404 here: that is "no picks yet", anything else is an error.
         api.currentPicks(id).catch((error: unknown) => {
           if (error instanceof ServiceError && error.status === 404) return null;
+          throw error;
+        }),
+        // A server without shot gathers answers 404: no gathers.
+        api.listGathers(id).catch((error: unknown) => {
+          if (error instanceof ServiceError && error.status === 404) return [];
           throw error;
         }),
       ]);
@@ -187,8 +200,12 @@ export class Workspace {
       if (!latest) {
         this.survey = survey;
         this.revision = null;
+        this.picks = picks;
+        this.gathers = gathers;
+        if (gathers.length > 0) this.view = 'gathers';
         this.renderHeader();
-        replaceChildren(this.viewHolder, h('div', { class: 'empty-state' }, h('h2', {}, survey.name), h('p', {}, 'This survey has no picks yet.')));
+        if (gathers.length > 0) this.renderView();
+        else replaceChildren(this.viewHolder, h('div', { class: 'empty-state' }, h('h2', {}, survey.name), h('p', {}, 'This survey has no picks yet.')));
         replaceChildren(this.results);
         this.say('');
         return;
@@ -200,6 +217,7 @@ export class Workspace {
       this.revisions = list;
       this.revision = revision;
       this.picks = picks;
+      this.gathers = gathers;
       const path = paths.revision(id, number);
       // The address bar always holds the revision shown: a URL a colleague can open.
       if (location.pathname !== path) {
@@ -294,7 +312,11 @@ export class Workspace {
         this.renderView();
       },
     }, label);
-    replaceChildren(this.tabs, tab('travel-times', 'Travel times'), tab('depth', 'Depth section'));
+    if (this.view === 'gathers' && this.gathers.length === 0) this.view = 'travel-times';
+    // A survey of gathers with no picks yet has only its gathers to show.
+    const interpreted = this.revision !== null || this.gathers.length === 0;
+    replaceChildren(this.tabs, interpreted ? tab('travel-times', 'Travel times') : null, interpreted ? tab('depth', 'Depth section') : null,
+      this.gathers.length > 0 ? tab('gathers', 'Shot gathers') : null);
     const revision = this.revision;
     replaceChildren(this.actions,
       revision ? h('a', { class: 'button-link', id: 'report-link', href: paths.report(survey.id, revision.number) }, 'Report') : null,
@@ -309,6 +331,14 @@ export class Workspace {
   }
 
   private renderView(): void {
+    if (this.view === 'gathers' && this.survey && this.gathers.length > 0) {
+      replaceChildren(this.viewHolder, this.gatherView.element);
+      void this.gatherView.show({
+        surveyId: this.survey.id, gathers: this.gathers, timeUnit: this.survey.scale === 'crustal' ? 's' : 'ms',
+        picksKey: `${this.picks?.version ?? 0}:${this.picks?.picksState ?? ''}`,
+      });
+      return;
+    }
     const revision = this.revision;
     if (!revision || !this.survey) return;
     const picks = this.picks?.pickSet.picks ?? null;
@@ -368,9 +398,8 @@ export class Workspace {
 
   /**
    * Store `edits`, re-interpret with the shown revision's options, and show the new revision; when
-   * `undoable`, remember the edits that take them back. Says how it ended. A stale
-   * version (someone else changed the picks) reloads, says so, and forgets this survey's undo steps:
-   * they were computed on picks that are no longer there.
+   * `undoable`, remember the edits that take them back. Says how it ended (see storeAndInterpret,
+   * also for what a stale version does).
    */
   private async applyEdits(edits: BranchEdit[], description: string, undoable: boolean): Promise<EditOutcome> {
     const survey = this.survey;
@@ -383,13 +412,42 @@ export class Workspace {
       return 'unchanged';
     }
     const inverse = inverseEdits(picks.pickSet.picks, effective);
+    return this.storeAndInterpret(description, shown.options, () => api.addBranchEdits(survey.id, effective, picks.version), () => {
+      if (undoable) this.undoStepsOf(survey.id).push({ description, edits: inverse });
+    });
+  }
+
+  /**
+   * Store hand edits of picks made on the shot gathers (a new pick set for the survey), then
+   * re-interpret and show the new revision as after a branch edit. The undo steps of branch edits
+   * are forgotten: they name picks by their place in the pick set, which the new set renumbers.
+   */
+  private async applyPickEdits(edits: PickEdit[], version: number, description: string): Promise<EditOutcome> {
+    const survey = this.survey;
+    if (!survey) return 'failed';
+    if (edits.length === 0) return 'unchanged';
+    const options = this.revision?.options ?? { scale: survey.scale };
+    return this.storeAndInterpret(description, options, () => api.addPickEdits(survey.id, edits, version), () => {
+      this.undoStepsOf(survey.id).length = 0;
+    });
+  }
+
+  /**
+   * The way every edit goes: `store` it, call `onStored`, interpret the picks as they are now
+   * with `options` and show the new revision. Says how it ended. A stale version (someone else
+   * changed the picks) reloads, says so, and forgets this survey's undo steps: they were computed
+   * on picks that are no longer there.
+   */
+  private async storeAndInterpret(description: string, options: Readonly<Record<string, unknown>>, store: () => Promise<{ version: number }>, onStored: () => void): Promise<EditOutcome> {
+    const survey = this.survey;
+    if (!survey) return 'failed';
     this.say(`Saving the ${description} and interpreting again…`);
     const started = performance.now();
     let stored: { version: number } | null = null;
     try {
-      stored = await api.addBranchEdits(survey.id, effective, picks.version);
-      if (undoable) this.undoStepsOf(survey.id).push({ description, edits: inverse });
-      const revision = await api.interpret(survey.id, stored.version, shown.options);
+      stored = await store();
+      onStored();
+      const revision = await api.interpret(survey.id, stored.version, options);
       await this.openSurvey(survey.id, revision.number, true, revision);
       this.say(`Saved as revision ${revision.number} (${Math.round(performance.now() - started)} ms).`);
       return 'stored';

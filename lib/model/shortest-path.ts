@@ -33,9 +33,19 @@
  * holds it (the cell of floor((x − originX)/h), floor(z/h), clamped to the last cell at the far
  * edges) at straight-line distance × that cell's slowness, and the search continues from them.
  *
+ * Uniform neighbourhoods: most nodes lie far from any interface, where every cell an edge from the
+ * node can cross has one slowness s; there the weight is simply h·|b − a|·s (the sum Σ_c f_c = 1),
+ * found without a cell look-up. A map of those nodes is built at the start of each call in O(N)
+ * (`uniformNeighbourhoodSlowness`); every other node sums its edges cell by cell. The two weights
+ * differ only by floating-point rounding (relative ~1e-16 per edge, so node times agree to ~1e-15
+ * relative); `uniformShortcut: false` turns the shortcut off. The map is not cached between calls:
+ * it costs about 3 % of a solve, so a cache would buy little and would have to guard against a caller
+ * changing `cellSlowness` between calls.
+ *
  * Complexity: with N nodes and M = star size, time O(N·M·(r + log N)) — each settled node relaxes M
- * edges, each weight costs at most 2r − 1 cell look-ups, each improvement a heap sift of O(log N) —
- * and memory O(N) (times, an indexed binary heap and its positions, all typed arrays).
+ * edges, each weight costs at most 2r − 1 cell look-ups (none in a uniform neighbourhood), each
+ * improvement a heap sift of O(log N) — and memory O(N) (times, the uniform map, an indexed binary
+ * heap with its keys and positions, all typed arrays).
  *
  * Misuse throws a RangeError with a message (the project treats a malformed grid as a programming
  * error, not a user-input problem): fewer than 2 node columns or rows, spacing not positive and
@@ -83,6 +93,14 @@ export interface GridSource {
 export interface ShortestPathOptions {
   /** Forward-star radius r: offsets with |i|, |j| ≤ r and gcd(|i|, |j|) = 1. Integer ≥ 1. */
   readonly radius: number;
+  /**
+   * Take the uniform-neighbourhood shortcut for edge weights (default true): from a node whose
+   * every reachable cell has the same slowness s, an edge weighs h·|b − a|·s instead of the sum over
+   * its cells, equal to it up to floating-point rounding (relative ~1e-16 per edge). false computes
+   * every weight cell by cell (about 2× slower on a two-layer section); the node times then differ
+   * only by that rounding. Meant for tests and checks of the shortcut.
+   */
+  readonly uniformShortcut?: boolean;
 }
 
 /** First-arrival times of one source at every node, and the surface interpolation. */
@@ -243,17 +261,93 @@ function starTable(radius: number): StarTable {
   };
 }
 
-/** Indexed binary min-heap of node indices keyed by `keys`; `position[node]` = slot, −1 when absent. */
+/**
+ * Uniform neighbourhoods of a slowness grid for the radius-r star: for each node (index
+ * row·columns + column), the slowness s when every cell that an edge of the star from that node can
+ * cross has slowness s, NaN otherwise. Used by `shortestPathTimes`; exported for its tests.
+ *
+ * An edge (i, j) from node (column, row) crosses cells with column in
+ * [column + min(0, i), column + max(0, i) − 1] and row in [row + min(0, j), row + max(0, j) − 1]
+ * (a grid-line edge: the two cells on either side), so all of them lie in the window of cell
+ * columns [column − r, column + r − 1] and cell rows [row − r, row + r − 1], clipped to the grid
+ * (an edge that leaves the grid is skipped; a grid-line edge on the border uses only its cell
+ * inside). The window is a little larger than the star's reach at its corners, never smaller.
+ *
+ * Separable and exact (slownesses compared with ===): first, along each cell row, whether the
+ * window's cell columns hold one value (the run of equal cells ending at the window's last column
+ * starts at or before its first); then, down each node column, whether the window's cell rows all
+ * gave the same value by the same run test (a NaN breaks every run). Both windows only move forward,
+ * so each run start is advanced one cell at a time: O(N) time whatever r, and the first pass is
+ * stored in the output array itself (cell row k in node row k, read before that row is written).
+ *
+ * Edges: a radius larger than the grid makes every window the whole grid. Does not check `grid` or
+ * `radius` (`shortestPathTimes` has).
+ *
+ * @example
+ * // 4 × 3 nodes, cells [1, 1, 1] over [1, 1, 0.5] s/m, r = 1.
+ * const uniform = uniformNeighbourhoodSlowness(
+ *   { originX: 0, spacing: 1, columns: 4, rows: 3, cellSlowness: Float64Array.from([1, 1, 1, 1, 1, 0.5]) },
+ *   1,
+ * );
+ * uniform[0]; // 1: node (0, 0) touches only cell (0, 0)
+ * uniform[1 * 4 + 2]; // NaN: node (2, 1) touches cells of 1 and 0.5 s/m
+ * uniform[2 * 4 + 3]; // 0.5: the corner node (3, 2) touches only the last cell
+ */
+export function uniformNeighbourhoodSlowness(grid: SlownessGrid, radius: number): Float64Array {
+  const { columns, rows, cellSlowness } = grid;
+  const cellColumns = columns - 1;
+  const cellRows = rows - 1;
+  const uniform = new Float64Array(columns * rows);
+  // Pass 1: uniform[cellRow·columns + column] = the value of cells [column − r, column + r − 1] of the row, or NaN.
+  for (let cellRow = 0; cellRow < cellRows; cellRow += 1) {
+    const base = cellRow * cellColumns;
+    let high = -1;
+    let runStart = 0;
+    for (let column = 0; column < columns; column += 1) {
+      const windowHigh = Math.min(cellColumns - 1, column + radius - 1);
+      while (high < windowHigh) {
+        high += 1;
+        if (high === 0 || cellSlowness[base + high] !== cellSlowness[base + high - 1]) runStart = high;
+      }
+      uniform[cellRow * columns + column] = runStart <= Math.max(0, column - radius) ? (cellSlowness[base + high] as number) : Number.NaN;
+    }
+  }
+  // Pass 2: per node column, the run of equal pass-1 values ending at the window's last cell row.
+  const runValue = new Float64Array(columns);
+  const runStart = new Int32Array(columns);
+  let high = -1;
+  for (let row = 0; row < rows; row += 1) {
+    const windowHigh = Math.min(cellRows - 1, row + radius - 1);
+    while (high < windowHigh) {
+      high += 1;
+      for (let column = 0; column < columns; column += 1) {
+        const value = uniform[high * columns + column] as number;
+        if (high === 0 || value !== runValue[column]) runStart[column] = high;
+        runValue[column] = value;
+      }
+    }
+    const windowLow = Math.max(0, row - radius);
+    for (let column = 0; column < columns; column += 1) {
+      uniform[row * columns + column] = (runStart[column] as number) <= windowLow ? (runValue[column] as number) : Number.NaN;
+    }
+  }
+  return uniform;
+}
+
+/**
+ * Indexed binary min-heap of node indices with their keys (times) stored beside them in slot order,
+ * so a sift compares keys of neighbouring slots without a look-up through the node's time;
+ * `position[node]` = slot, −1 when absent.
+ */
 class NodeHeap {
   private readonly slots: Int32Array;
+  private readonly slotKeys: Float64Array;
   private readonly position: Int32Array;
   private count = 0;
 
-  constructor(
-    capacity: number,
-    private readonly keys: Float64Array,
-  ) {
+  constructor(capacity: number) {
     this.slots = new Int32Array(capacity);
+    this.slotKeys = new Float64Array(capacity);
     this.position = new Int32Array(capacity).fill(-1);
   }
 
@@ -261,73 +355,72 @@ class NodeHeap {
     return this.count;
   }
 
-  /** Insert `node`, or move it up after its key decreased. */
-  upsert(node: number): void {
+  /** Insert `node` with `key`, or move it up after its key decreased to `key`. */
+  upsert(node: number, key: number): void {
     let slot = this.position[node] as number;
     if (slot < 0) {
       slot = this.count;
       this.count += 1;
-      this.slots[slot] = node;
-      this.position[node] = slot;
     }
-    this.siftUp(slot);
+    const { slots, slotKeys, position } = this;
+    while (slot > 0) {
+      const parentSlot = (slot - 1) >> 1;
+      const parentKey = slotKeys[parentSlot] as number;
+      if (parentKey <= key) break;
+      const parent = slots[parentSlot] as number;
+      slots[slot] = parent;
+      slotKeys[slot] = parentKey;
+      position[parent] = slot;
+      slot = parentSlot;
+    }
+    slots[slot] = node;
+    slotKeys[slot] = key;
+    position[node] = slot;
   }
 
   /** Remove and return the node of smallest key (the heap must not be empty). */
   pop(): number {
-    const top = this.slots[0] as number;
+    const { slots, slotKeys, position } = this;
+    const top = slots[0] as number;
     this.count -= 1;
-    this.position[top] = -1;
-    if (this.count > 0) {
-      const last = this.slots[this.count] as number;
-      this.slots[0] = last;
-      this.position[last] = 0;
-      this.siftDown(0);
-    }
-    return top;
-  }
-
-  private siftUp(start: number): void {
-    const node = this.slots[start] as number;
-    const key = this.keys[node] as number;
-    let slot = start;
-    while (slot > 0) {
-      const parentSlot = (slot - 1) >> 1;
-      const parent = this.slots[parentSlot] as number;
-      if ((this.keys[parent] as number) <= key) break;
-      this.slots[slot] = parent;
-      this.position[parent] = slot;
-      slot = parentSlot;
-    }
-    this.slots[slot] = node;
-    this.position[node] = slot;
-  }
-
-  private siftDown(start: number): void {
-    const node = this.slots[start] as number;
-    const key = this.keys[node] as number;
-    let slot = start;
+    position[top] = -1;
+    const count = this.count;
+    if (count === 0) return top;
+    const node = slots[count] as number;
+    const key = slotKeys[count] as number;
+    let slot = 0;
     for (;;) {
       const left = 2 * slot + 1;
-      if (left >= this.count) break;
-      const right = left + 1;
+      if (left >= count) break;
       let child = left;
-      if (right < this.count && (this.keys[this.slots[right] as number] as number) < (this.keys[this.slots[left] as number] as number)) child = right;
-      const childNode = this.slots[child] as number;
-      if ((this.keys[childNode] as number) >= key) break;
-      this.slots[slot] = childNode;
-      this.position[childNode] = slot;
+      let childKey = slotKeys[left] as number;
+      const right = left + 1;
+      if (right < count) {
+        const rightKey = slotKeys[right] as number;
+        if (rightKey < childKey) {
+          child = right;
+          childKey = rightKey;
+        }
+      }
+      if (childKey >= key) break;
+      const childNode = slots[child] as number;
+      slots[slot] = childNode;
+      slotKeys[slot] = childKey;
+      position[childNode] = slot;
       slot = child;
     }
-    this.slots[slot] = node;
-    this.position[node] = slot;
+    slots[slot] = node;
+    slotKeys[slot] = key;
+    position[node] = slot;
+    return top;
   }
 }
 
 /**
  * First-arrival times at every node of `grid` from one source, by Dijkstra1959's algorithm on the
- * forward-star graph of Moser1991 (see the module comment for the edge weights, the source start
- * and the complexity). Never mutates `grid`.
+ * forward-star graph of Moser1991 (see the module comment for the edge weights, the uniform-
+ * neighbourhood shortcut, the source start and the complexity). Never mutates `grid` and keeps
+ * nothing from it between calls, so a caller may change `cellSlowness` between calls.
  *
  * Edges: a source on the border or a corner of the grid is inside; a source beyond the border by
  * any amount, or a non-finite coordinate, throws. Radii larger than the grid are allowed (edges
@@ -350,7 +443,7 @@ export function shortestPathTimes(grid: SlownessGrid, source: GridSource, option
   const nodeCount = columns * rows;
   const times = new Float64Array(nodeCount).fill(Number.POSITIVE_INFINITY);
   const settled = new Uint8Array(nodeCount);
-  const heap = new NodeHeap(nodeCount, times);
+  const heap = new NodeHeap(nodeCount);
 
   // Start: the source node itself, or the corners of the cell holding the source.
   const sourceColumn = (source.x - originX) / spacing;
@@ -358,7 +451,7 @@ export function shortestPathTimes(grid: SlownessGrid, source: GridSource, option
   if (Number.isInteger(sourceColumn) && Number.isInteger(sourceRow)) {
     const node = sourceRow * columns + sourceColumn;
     times[node] = 0;
-    heap.upsert(node);
+    heap.upsert(node, 0);
   } else {
     const cellColumn = Math.min(Math.floor(sourceColumn), cellColumns - 1);
     const cellRow = Math.min(Math.floor(sourceRow), cellRows - 1);
@@ -367,19 +460,57 @@ export function shortestPathTimes(grid: SlownessGrid, source: GridSource, option
       const column = cellColumn + (corner & 1);
       const row = cellRow + (corner >> 1);
       const node = row * columns + column;
-      times[node] = spacing * Math.hypot(column - sourceColumn, row - sourceRow) * slowness;
-      heap.upsert(node);
+      const time = spacing * Math.hypot(column - sourceColumn, row - sourceRow) * slowness;
+      times[node] = time;
+      heap.upsert(node, time);
     }
   }
 
   const star = starTable(options.radius);
   const { stepColumn, stepRow, length, alongGridLine, cellStart, cellCount, cellColumn, cellRow, cellFraction } = star;
+  const { radius } = options;
+  const scaledLength = length.map((edgeLength) => spacing * edgeLength);
+  const cellIndexStep = cellRow.map((rowStep, piece) => rowStep * cellColumns + (cellColumn[piece] as number));
+  const stepIndex = stepRow.map((rowStep, offset) => rowStep * columns + (stepColumn[offset] as number));
+  const uniformSlowness = options.uniformShortcut === false ? null : uniformNeighbourhoodSlowness(grid, radius);
   while (heap.size > 0) {
     const node = heap.pop();
     settled[node] = 1;
     const column = node % columns;
     const row = (node - column) / columns;
     const time = times[node] as number;
+    const uniform = uniformSlowness === null ? Number.NaN : (uniformSlowness[node] as number);
+    if (!Number.isNaN(uniform)) {
+      // Every cell within the star's reach has slowness `uniform`: weight = h·|b − a|·s.
+      if (column >= radius && column < columns - radius && row >= radius && row < rows - radius) {
+        // Every target lies inside the grid.
+        for (let offset = 0; offset < star.size; offset += 1) {
+          const target = node + (stepIndex[offset] as number);
+          if (settled[target] === 1) continue;
+          const candidate = time + (scaledLength[offset] as number) * uniform;
+          if (candidate < (times[target] as number)) {
+            times[target] = candidate;
+            heap.upsert(target, candidate);
+          }
+        }
+        continue;
+      }
+      for (let offset = 0; offset < star.size; offset += 1) {
+        const targetColumn = column + (stepColumn[offset] as number);
+        const targetRow = row + (stepRow[offset] as number);
+        if (targetColumn < 0 || targetColumn >= columns || targetRow < 0 || targetRow >= rows) continue;
+        const target = targetRow * columns + targetColumn;
+        if (settled[target] === 1) continue;
+        const candidate = time + (scaledLength[offset] as number) * uniform;
+        if (candidate < (times[target] as number)) {
+          times[target] = candidate;
+          heap.upsert(target, candidate);
+        }
+      }
+      continue;
+    }
+    // Cell (column, row) lies below-right of the node; a crossed cell is nodeCell + its index step.
+    const nodeCell = row * cellColumns + column;
     for (let offset = 0; offset < star.size; offset += 1) {
       const targetColumn = column + (stepColumn[offset] as number);
       const targetRow = row + (stepRow[offset] as number);
@@ -392,23 +523,22 @@ export function shortestPathTimes(grid: SlownessGrid, source: GridSource, option
       if (alongGridLine[offset] === 1) {
         slowness = Number.POSITIVE_INFINITY;
         for (let piece = first; piece < last; piece += 1) {
-          const c = column + (cellColumn[piece] as number);
-          const r = row + (cellRow[piece] as number);
-          if (c < 0 || c >= cellColumns || r < 0 || r >= cellRows) continue;
-          slowness = Math.min(slowness, cellSlowness[r * cellColumns + c] as number);
+          const pieceColumn = column + (cellColumn[piece] as number);
+          const pieceRow = row + (cellRow[piece] as number);
+          if (pieceColumn < 0 || pieceColumn >= cellColumns || pieceRow < 0 || pieceRow >= cellRows) continue;
+          slowness = Math.min(slowness, cellSlowness[pieceRow * cellColumns + pieceColumn] as number);
         }
       } else {
+        // An edge inside the grid crosses only cells inside it: no bounds to check.
         slowness = 0;
         for (let piece = first; piece < last; piece += 1) {
-          const c = column + (cellColumn[piece] as number);
-          const r = row + (cellRow[piece] as number);
-          slowness += (cellFraction[piece] as number) * (cellSlowness[r * cellColumns + c] as number);
+          slowness += (cellFraction[piece] as number) * (cellSlowness[nodeCell + (cellIndexStep[piece] as number)] as number);
         }
       }
-      const candidate = time + spacing * (length[offset] as number) * slowness;
+      const candidate = time + (scaledLength[offset] as number) * slowness;
       if (candidate < (times[target] as number)) {
         times[target] = candidate;
-        heap.upsert(target);
+        heap.upsert(target, candidate);
       }
     }
   }
@@ -437,8 +567,10 @@ export function shortestPathTimes(grid: SlownessGrid, source: GridSource, option
  * Sampling convention (METHODS §12: it dominates the grid error at sharp contrasts): every z_k is
  * evaluated at the cell's centre x_c only, and the cell takes the time average of the slowness
  * along its centre vertical, s_cell = Σ_i ℓ_i·s_i / h, with ℓ_i the length of [z_row, z_row+1]
- * inside layer i at x_c. So an interface on a node row is represented exactly (each cell lies in one
- * layer); a cell cut by an interface gets the slowness that keeps its vertical travel time, so an
+ * inside layer i at x_c; a cell wholly inside layer i takes exactly s_i = 1/V_i, so the cells of one
+ * layer are equal to the last bit (which lets `shortestPathTimes` take its uniform-neighbourhood
+ * shortcut for every spacing h). So an interface on a node row is represented exactly (each cell
+ * lies in one layer); a cell cut by an interface gets the slowness that keeps its vertical travel time, so an
  * interface between rows is not moved to a row, but smeared over one cell (the head wave then runs
  * along the next node row below, under a cell of mixed slowness). The interface's shape within a
  * cell (an undulation shorter than h) is not seen. With this convention the 6° refractor of METHODS
@@ -493,16 +625,22 @@ export function slownessGridFromSection(section: LayeredSection, geometry: GridG
       const top = row * spacing;
       const bottom = top + spacing;
       // Time average along the centre vertical: Σ_layers (length of [top, bottom] in the layer) · s_layer / h.
+      // A cell wholly inside one layer takes exactly 1/V of that layer (the average could differ from
+      // it in the last bit, as bottom − top need not equal h exactly).
       let sum = 0;
       let upper = top;
+      let layersCut = 0;
+      let lastLayerCut = 0;
       for (let layer = 0; layer < velocities.length; layer += 1) {
         const lower = layer < depths.length ? Math.min(Math.max(depths[layer] as number, top), bottom) : bottom;
         if (lower > upper) {
           sum += (lower - upper) / (velocities[layer] as number);
           upper = lower;
+          layersCut += 1;
+          lastLayerCut = layer;
         }
       }
-      cellSlowness[row * cellColumns + column] = sum / spacing;
+      cellSlowness[row * cellColumns + column] = layersCut === 1 ? 1 / (velocities[lastLayerCut] as number) : sum / spacing;
     }
   }
   return { originX, spacing, columns, rows, cellSlowness };

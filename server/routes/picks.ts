@@ -2,13 +2,15 @@
  * Picks of a stored survey: upload a pick table (multipart or text/csv body), read the current picks
  * as JSON or CSV, add branch edits, download an original upload byte for byte.
  */
-import { Router } from 'express';
+import { Router, type Response } from 'express';
+import type { Problem } from '../../lib/problems.js';
 import * as z from 'zod';
 import { applyBranchEdits } from '../../lib/branches/edits.js';
 import { readPickTable, writePickTable } from '../../lib/picks/index.js';
 import { DISPLAY_UNITS } from '../../lib/units.js';
-import { parseRequest } from '../errors.js';
-import { receivedFile, receiveUpload, recogniseUpload, sanitiseFileName } from '../uploads.js';
+import { ApiError, parseRequest } from '../errors.js';
+import { gatherUploadFields, pickUploadedGathers } from '../gather-uploads.js';
+import { receivedFiles, receiveUpload, recogniseUpload, sanitiseFileName, type ReceivedFile } from '../uploads.js';
 import { expectedVersion, problemsError, sendCsv, surveyId, UploadParams, versionTag } from './common.js';
 import type { RouteContext } from './context.js';
 import { currentPicks } from './current-picks.js';
@@ -34,8 +36,21 @@ export function pickRoutes(context: RouteContext): Router {
   router.post('/api/surveys/:id/picks', ...receiveUpload(config), (request, response) => {
     const id = surveyId(request);
     const version = expectedVersion(request);
-    const file = receivedFile(request);
-    const kind = recogniseUpload(file, ['pick-table']);
+    const files = receivedFiles(request);
+    const kinds = files.map((file) => recogniseUpload(file, ['pick-table', 'shot-gather']));
+    if (kinds.every((kind) => kind.kind === 'shot-gather')) {
+      storeGathers(id, version, files.map((file, index) => ({ file, mediaType: kinds[index]!.mediaType })), request.body, request.query, response);
+      return;
+    }
+    if (files.length > 1) {
+      throw new ApiError({
+        code: 'upload-one-file', status: 400,
+        message: `a pick table is uploaded on its own, and this upload has ${files.length} files`,
+        fix: 'send the pick table in its own request (several files in one upload must all be shot gathers)',
+      });
+    }
+    const file = files[0]!;
+    const kind = kinds[0]!;
     const outcome = readPickTable(file.bytes, { maxBytes: config.maxUploadBytes });
     if (!outcome.ok) throw problemsError('pick-table-refused', `the pick table ${JSON.stringify(sanitiseFileName(file.fileName))}`, outcome.problems);
     const stored = store.addPickUpload(
@@ -53,6 +68,38 @@ export function pickRoutes(context: RouteContext): Router {
       warnings: outcome.warnings,
     });
   });
+
+  /** Gathers: read and pick them, merge their picks with the survey's others, store all at once. */
+  function storeGathers(id: string, version: number, files: { file: ReceivedFile; mediaType: string }[], body: unknown, query: unknown, response: Response): void {
+    const fields = gatherUploadFields(body, query);
+    const earlier = store.picksState(id) === null ? null : currentPicks(store, id).pickSet;
+    const keepEarlier = earlier !== null && earlier.coordinateSystem === 'line';
+    const picked = pickUploadedGathers(files, fields, keepEarlier ? earlier.picks : [], config.maxUploadBytes);
+    if (picked.pickSet.picks.length === 0) {
+      throw problemsError('gather-no-picks', 'the gather upload', picked.warnings.map((warning) => ({ ...warning, severity: 'error' as const })));
+    }
+    const stored = store.addGatherUpload(id, {
+      files: picked.files.map((entry) => ({
+        fileName: entry.fileName, mediaType: entry.mediaType, bytes: entry.file.bytes,
+        shots: entry.shots.map((shot) => ({ shotNumber: shot.shotNumber, shot: shot.shot, summaryJson: JSON.stringify(shot.summary) })),
+      })),
+      pickSetJson: JSON.stringify(picked.pickSet),
+    }, version);
+    const dropped: Problem[] = earlier !== null && !keepEarlier
+      ? [{ code: 'gather-replaced-geographic-picks', severity: 'warning', line: 0, column: null,
+          message: 'the survey\'s earlier picks were placed by latitude and longitude, which gather positions along the line cannot join; the gathers\' picks replace them',
+          fix: 'upload the earlier shots as gathers too, or as a pick table with positions along the line' }]
+      : [];
+    response.status(201).set('ETag', versionTag(stored.version)).json({
+      uploads: stored.uploads,
+      version: stored.version,
+      pickCount: picked.pickSet.picks.length,
+      shotIds: picked.pickSet.shotIds,
+      suggestedScale: picked.pickSet.suggestedScale,
+      gathers: stored.gathers.map((gather) => ({ id: gather.id, shot: gather.shot })),
+      warnings: [...picked.warnings, ...dropped],
+    });
+  }
 
   router.get('/api/surveys/:id/picks', (request, response) => {
     const id = surveyId(request);

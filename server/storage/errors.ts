@@ -15,7 +15,7 @@ export abstract class StorageError extends Error {
 }
 
 /** What a lookup was for. */
-export type StoredThing = 'survey' | 'upload' | 'pick set' | 'revision';
+export type StoredThing = 'survey' | 'upload' | 'pick set' | 'revision' | 'gather';
 
 /** The survey, or a thing inside it, does not exist (or was deleted). */
 export class NotFoundError extends StorageError {

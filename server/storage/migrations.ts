@@ -108,9 +108,32 @@ const revisionsRecordPicksState = `
 ALTER TABLE revisions ADD COLUMN picks_state TEXT;
 `;
 
+/**
+ * Shot gathers: each shot of an uploaded SEG-2 / SEG-Y file (the file itself is an upload), with
+ * what the automatic picker made of its traces. A newer gather of the same shot supersedes the
+ * older one (the older row is deleted; its upload stays, byte for byte). Pick sets made by hand
+ * edits have no upload.
+ */
+const shotGathers = `
+CREATE TABLE shot_gathers (
+  id           TEXT PRIMARY KEY,
+  survey_id    TEXT NOT NULL REFERENCES surveys (id) ON DELETE CASCADE,
+  upload_id    TEXT NOT NULL REFERENCES uploads (id) ON DELETE CASCADE,
+  shot_number  INTEGER NOT NULL CHECK (shot_number >= 1),
+  shot         TEXT NOT NULL CONSTRAINT "shot name must be 1 to 200 characters"
+                 CHECK (length(shot) BETWEEN 1 AND 200),
+  summary_json TEXT NOT NULL CONSTRAINT "gather summary must be valid JSON"
+                 CHECK (json_valid(summary_json)),
+  created_at   TEXT NOT NULL,
+  UNIQUE (survey_id, shot)
+) STRICT;
+CREATE INDEX shot_gathers_by_survey ON shot_gathers (survey_id, created_at);
+`;
+
 /** All migrations this code knows, oldest first. */
 export const MIGRATIONS: readonly Migration[] = [
   { version: 1, name: 'surveys, uploads, pick sets, branch edits and revisions', sql: initialSchema },
   { version: 2, name: 'branch edits belong to the pick set they were made on', sql: editsBelongToPickSets },
   { version: 3, name: 'revisions record the picks they were computed from', sql: revisionsRecordPicksState },
+  { version: 4, name: 'shot gathers and what the picker made of them', sql: shotGathers },
 ];

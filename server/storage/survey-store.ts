@@ -97,6 +97,30 @@ export interface PickUpload {
   readonly pickSetJson: string;
 }
 
+/** One shot of an uploaded gather file, as stored. */
+export interface ShotGatherRecord {
+  /** `<upload id>.<shot number>`. */
+  readonly id: string;
+  readonly surveyId: string;
+  readonly uploadId: string;
+  readonly shotNumber: number;
+  readonly shot: string;
+  /** The summary and automatic picks, as JSON (the routes' own shape). */
+  readonly summaryJson: string;
+  readonly createdAt: string;
+}
+
+/** Gather files uploaded together, their shots, and the pick set made from them (and any kept picks). */
+export interface GatherUpload {
+  readonly files: readonly {
+    readonly fileName: string;
+    readonly mediaType: string;
+    readonly bytes: Uint8Array;
+    readonly shots: readonly { readonly shotNumber: number; readonly shot: string; readonly summaryJson: string }[];
+  }[];
+  readonly pickSetJson: string;
+}
+
 export interface NewRevision {
   readonly optionsJson: string;
   readonly resultJson: string;
@@ -269,6 +293,45 @@ export function createSurveyStore(db: Database, options: StoreOptions = {}) {
     },
   );
 
+  const deleteGatherOfShot = db.prepare<[string, string]>('DELETE FROM shot_gathers WHERE survey_id = ? AND shot = ?');
+  const insertGather = db.prepare<[string, string, string, number, string, string, string]>(
+    `INSERT INTO shot_gathers (id, survey_id, upload_id, shot_number, shot, summary_json, created_at) VALUES (?, ?, ?, ?, ?, ?, ?)`,
+  );
+  const addGathers = writeTransaction(
+    (surveyId: string, upload: GatherUpload, expectedVersion: number): { uploads: UploadInfo[]; gathers: ShotGatherRecord[]; version: number } => {
+      const createdAt = now();
+      const version = claimVersion(surveyId, expectedVersion, createdAt);
+      const uploads: UploadInfo[] = [];
+      const gathers: ShotGatherRecord[] = [];
+      for (const file of upload.files) {
+        const info: UploadInfo = {
+          id: randomUUID(), surveyId, fileName: file.fileName, mediaType: file.mediaType, byteSize: file.bytes.byteLength,
+          sha256: createHash('sha256').update(file.bytes).digest('hex'), createdAt,
+        };
+        insertUpload.run(info.id, surveyId, info.fileName, info.mediaType, info.byteSize, info.sha256, asBuffer(file.bytes), createdAt);
+        uploads.push(info);
+        for (const shot of file.shots) {
+          const gather: ShotGatherRecord = { id: `${info.id}.${shot.shotNumber}`, surveyId, uploadId: info.id, shotNumber: shot.shotNumber, shot: shot.shot, summaryJson: shot.summaryJson, createdAt };
+          deleteGatherOfShot.run(surveyId, shot.shot);
+          insertGather.run(gather.id, surveyId, gather.uploadId, gather.shotNumber, gather.shot, gather.summaryJson, createdAt);
+          gathers.push(gather);
+        }
+      }
+      // A pick set made from several files belongs to none of them.
+      insertPickSet.run(surveyId, uploads.length === 1 ? uploads[0]!.id : null, upload.pickSetJson, createdAt);
+      return { uploads, gathers, version };
+    },
+  );
+  const addDerivedPickSet = writeTransaction((surveyId: string, pickSetJson: string, expectedVersion: number): { version: number } => {
+    const createdAt = now();
+    const version = claimVersion(surveyId, expectedVersion, createdAt);
+    insertPickSet.run(surveyId, null, pickSetJson, createdAt);
+    return { version };
+  });
+  const gatherColumns = 'id, survey_id AS surveyId, upload_id AS uploadId, shot_number AS shotNumber, shot, summary_json AS summaryJson, created_at AS createdAt';
+  const selectGathers = db.prepare<[string], ShotGatherRecord>(`SELECT ${gatherColumns} FROM shot_gathers WHERE survey_id = ? ORDER BY created_at, upload_id, shot_number`);
+  const selectGather = db.prepare<[string, string], ShotGatherRecord>(`SELECT ${gatherColumns} FROM shot_gathers WHERE survey_id = ? AND id = ?`);
+
   const selectCurrentPickSet = db.prepare<[string], PickSetRecord>(
     `SELECT id, survey_id AS surveyId, upload_id AS uploadId, pick_set_json AS pickSetJson, created_at AS createdAt
      FROM pick_sets WHERE survey_id = ? ORDER BY id DESC LIMIT 1`,
@@ -384,6 +447,34 @@ export function createSurveyStore(db: Database, options: StoreOptions = {}) {
      */
     addPickUpload(surveyId: string, upload: PickUpload, expectedVersion: number): { upload: UploadInfo; version: number } {
       return addUpload(surveyId, upload, expectedVersion);
+    },
+
+    /**
+     * Stores gather files byte for byte, one row per shot in them (replacing any older gather of
+     * the same shot), and the pick set made from them as the survey's current one, in one
+     * transaction. Returns the uploads, the gathers and the survey's new version.
+     */
+    addGatherUpload(surveyId: string, upload: GatherUpload, expectedVersion: number): { uploads: UploadInfo[]; gathers: ShotGatherRecord[]; version: number } {
+      return addGathers(surveyId, upload, expectedVersion);
+    },
+
+    /** Stores a pick set made from the current one (hand edits of picks) as the survey's current one. */
+    addPickSet(surveyId: string, pickSetJson: string, expectedVersion: number): { version: number } {
+      return addDerivedPickSet(surveyId, pickSetJson, expectedVersion);
+    },
+
+    /** The survey's shot gathers in upload order. */
+    listGathers(surveyId: string): ShotGatherRecord[] {
+      requireSurvey(surveyId);
+      return selectGathers.all(surveyId);
+    },
+
+    /** One shot gather of the survey; NotFoundError('gather') when it has none of that id. */
+    getGather(surveyId: string, gatherId: string): ShotGatherRecord {
+      requireSurvey(surveyId);
+      const gather = selectGather.get(surveyId, gatherId);
+      if (gather === undefined) throw new NotFoundError('gather', surveyId, gatherId);
+      return gather;
     },
 
     /** The newest pick set; NotFoundError('pick set') when nothing was uploaded yet. */

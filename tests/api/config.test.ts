@@ -5,7 +5,7 @@ describe('parseConfig', () => {
   it('when only dataDir is given, then parseConfig fills the documented defaults', () => {
     expect(parseConfig({ dataDir: 'data' })).toEqual({
       host: '127.0.0.1', port: 8080, dataDir: 'data', lockReads: false,
-      maxUploadBytes: DEFAULT_MAX_UPLOAD_BYTES, maxFilesPerUpload: 1, jsonBodyLimit: DEFAULT_JSON_BODY_LIMIT,
+      maxUploadBytes: DEFAULT_MAX_UPLOAD_BYTES, maxUploadRequestBytes: 4 * DEFAULT_MAX_UPLOAD_BYTES, maxFilesPerUpload: 200, jsonBodyLimit: DEFAULT_JSON_BODY_LIMIT,
       allowedHostNames: [], maxInterpretPicks: 100_000,
       trustedAddresses: ['127.0.0.1', '::1', '::ffff:127.0.0.1'],
     });

@@ -79,9 +79,22 @@ describe('picks API', () => {
   });
 
   it('when more files come than maxFilesPerUpload, then it gets 413 naming that limit', async () => {
+    const strict = openHarness({ maxFilesPerUpload: 1 });
+    try {
+      const id = (await request(strict.app).post('/api/surveys').send({ name: 'x' }).expect(201)).body.id;
+      const response = await request(strict.app).post(`/api/surveys/${id}/picks`).set('If-Match', '"v1"')
+        .attach('file', Buffer.from(SMALL_PICK_TABLE), 'a.csv').attach('file', Buffer.from(SMALL_PICK_TABLE), 'b.csv').expect(413);
+      expect(response.body.error).toMatchObject({ code: 'upload-too-many-files', details: { limit: 'maxFilesPerUpload', maxFiles: 1 } });
+      expect(rowCount(strict.db, 'uploads')).toBe(0);
+    } finally {
+      strict.close();
+    }
+  });
+
+  it('when two pick tables come in one upload, then 400 says to send a pick table on its own', async () => {
     const response = await request(harness.app).post(`/api/surveys/${surveyId}/picks`).set('If-Match', '"v1"')
-      .attach('file', Buffer.from(SMALL_PICK_TABLE), 'a.csv').attach('file', Buffer.from(SMALL_PICK_TABLE), 'b.csv').expect(413);
-    expect(response.body.error).toMatchObject({ code: 'upload-too-many-files', details: { limit: 'maxFilesPerUpload', maxFiles: 1 } });
+      .attach('file', Buffer.from(SMALL_PICK_TABLE), 'a.csv').attach('file', Buffer.from(SMALL_PICK_TABLE), 'b.csv').expect(400);
+    expect(response.body.error.code).toBe('upload-one-file');
     expect(rowCount(harness.db, 'uploads')).toBe(0);
   });
 

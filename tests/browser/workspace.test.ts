@@ -104,8 +104,11 @@ async function openSurveyNamed(name: string): Promise<void> {
   await waitForPlot(page, '#travel-time-plot', before);
 }
 
-/** The bundled samples the harness loads as surveys (sample-surveys/*.csv), by name. */
-const SAMPLE_NAMES = readdirSync(SAMPLE_DIR).filter((name) => name.endsWith('.csv')).map((name) => name.replace(/\.csv$/, '')).sort();
+/** The bundled samples the harness loads as surveys (pick tables, SEG-Y files and folders of SEG-2 files), by name. */
+const SAMPLE_NAMES = readdirSync(SAMPLE_DIR, { withFileTypes: true })
+  .filter((entry) => entry.isDirectory() || /\.(csv|sgy)$/.test(entry.name))
+  .map((entry) => entry.name.replace(/\.(csv|sgy)$/, ''))
+  .sort();
 
 describe('the browser client', () => {
   it('on first sight shows the survey list and the latest survey: fitted travel-time plot and layer table, without a click', async () => {

@@ -16,7 +16,8 @@ import { MIGRATIONS } from '../../server/storage/migrations.js';
 import { createSurveyStore } from '../../server/storage/survey-store.js';
 
 /** The pick tables in sample-surveys/ (one survey each when loaded). */
-const SAMPLE_COUNT = readdirSync('sample-surveys').filter((name) => name.endsWith('.csv')).length;
+/** Pick tables, SEG-Y files and folders of SEG-2 files: each is one sample survey (server/serve.ts). */
+const SAMPLE_COUNT = readdirSync('sample-surveys', { withFileTypes: true }).filter((entry) => entry.isDirectory() || /\.(csv|sgy)$/.test(entry.name)).length;
 
 
 
@@ -36,7 +37,7 @@ describe('slopebreak serve', () => {
     expect(health.status).toBe(200);
     const surveys = (await (await fetch(new URL('api/surveys', url))).json()) as { surveys?: unknown[] } | unknown[];
     const list = Array.isArray(surveys) ? surveys : (surveys.surveys ?? []);
-    expect(list.length).toBe(readdirSync('sample-surveys').filter((name) => name.endsWith('.csv')).length);
+    expect(list.length).toBe(SAMPLE_COUNT);
     // Each sample comes with a first interpretation, so a newcomer sees a result without a click.
     for (const survey of list as { id: string }[]) {
       const revisions = (await (await fetch(new URL(`api/surveys/${survey.id}/revisions/1`, url))).json()) as { result?: { layers?: unknown[] } };

@@ -40,7 +40,7 @@ describe('openDatabase', () => {
     const reopened = temp.open(file);
     expect(migrationRows(reopened)).toEqual(first); // same rows, same applied_at: nothing re-run
     expect(applyMigrations(reopened, MIGRATIONS)).toEqual([]);
-    expect(tableNames(reopened)).toEqual(['branch_edits', 'pick_sets', 'revisions', 'schema_migrations', 'surveys', 'uploads']);
+    expect(tableNames(reopened)).toEqual(['branch_edits', 'pick_sets', 'revisions', 'schema_migrations', 'shot_gathers', 'surveys', 'uploads']);
   });
 
   it('openDatabase refuses a database whose schema is newer than the code, naming both versions, and leaves it untouched', () => {

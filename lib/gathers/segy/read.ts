@@ -525,8 +525,7 @@ export function openSegy(input: ByteSource | Uint8Array, options: SegyReadOption
     const samples = sampleFormat.float32Exact ? new Float32Array(count) : new Float64Array(count);
     sampleFormat.decode(viewOf(bytes.subarray(TRACE_HEADER_BYTES)), count, littleEndian, samples);
 
-    const metadata = new Map<string, string>();
-    for (const name of Object.keys(fields) as TraceHeaderFieldName[]) metadata.set(name, String(header[name]));
+    const metadata = new TraceHeaderMetadata(header);
     const trace: SegyTrace = {
       index,
       byteOffset: at,
@@ -552,13 +551,48 @@ function checkIndex(index: number, traceCount: number): void {
   }
 }
 
+/** The trace-header fields as a list, made once (decoding runs once per trace of a large file). */
+const TRACE_HEADER_ENTRIES = Object.entries(TRACE_HEADER_FIELDS) as Array<[TraceHeaderFieldName, HeaderField]>;
+const TRACE_HEADER_NAMES: readonly TraceHeaderFieldName[] = TRACE_HEADER_ENTRIES.map(([name]) => name);
+
 /** Every field of a 240-byte trace header, unscaled. */
 export function decodeTraceHeader(view: DataView, littleEndian: boolean): SegyTraceHeader {
   const header = {} as Record<TraceHeaderFieldName, number>;
-  for (const [name, headerField] of Object.entries(TRACE_HEADER_FIELDS) as Array<[TraceHeaderFieldName, HeaderField]>) {
-    header[name] = readHeaderField(view, headerField, littleEndian);
-  }
+  for (const [name, headerField] of TRACE_HEADER_ENTRIES) header[name] = readHeaderField(view, headerField, littleEndian);
   return header;
+}
+
+/**
+ * A trace's header values as the gather's `metadata` (field name → decimal text), made from the
+ * decoded header on demand: a file of many traces is read without building ninety strings per
+ * trace that nobody asks for.
+ */
+class TraceHeaderMetadata implements ReadonlyMap<string, string> {
+  constructor(private readonly header: SegyTraceHeader) {}
+  get size(): number {
+    return TRACE_HEADER_NAMES.length;
+  }
+  get(key: string): string | undefined {
+    return this.has(key) ? String(this.header[key as TraceHeaderFieldName]) : undefined;
+  }
+  has(key: string): boolean {
+    return Object.prototype.hasOwnProperty.call(TRACE_HEADER_FIELDS, key);
+  }
+  forEach(callback: (value: string, key: string, map: ReadonlyMap<string, string>) => void): void {
+    for (const name of TRACE_HEADER_NAMES) callback(String(this.header[name]), name, this);
+  }
+  *entries(): MapIterator<[string, string]> {
+    for (const name of TRACE_HEADER_NAMES) yield [name, String(this.header[name])];
+  }
+  *keys(): MapIterator<string> {
+    yield* TRACE_HEADER_NAMES;
+  }
+  *values(): MapIterator<string> {
+    for (const name of TRACE_HEADER_NAMES) yield String(this.header[name]);
+  }
+  [Symbol.iterator](): MapIterator<[string, string]> {
+    return this.entries();
+  }
 }
 
 /**
