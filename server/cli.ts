@@ -74,7 +74,7 @@ interpret options:
 
 pick options (also taken by interpret when it is given gathers):
   --out FILE             write the pick table to FILE (default: standard output)
-  --band LOW-HIGH        band-pass the traces before picking, corners in Hz (e.g. 20-250)
+  --band LOW-HIGH        band-pass the traces before picking, corners in Hz (e.g. 15-800)
   --agc SECONDS          automatic gain control with this window before picking (e.g. 0.05)
   --normalise            scale every trace to its largest sample before picking
   --estimator NAME       first estimate: sta-lta or energy-ratio (default from the picker)
@@ -122,7 +122,7 @@ type PickOptionValues = { [name in keyof typeof PICK_OPTIONS]?: (typeof PICK_OPT
 
 function metres(value: string | undefined, option: string): number | undefined {
   if (value === undefined) return undefined;
-  if (!/^-?\d+(\.\d+)?$/.test(value.trim())) throw new UsageError(`${option} takes metres, e.g. 12.5, got "${value}"`);
+  if (!/^-?\d+(\.\d+)?$/.test(value.trim()) || Math.abs(Number(value)) > 1e7) throw new UsageError(`${option} takes metres within 10,000 km, e.g. 12.5, got "${value}"`);
   return Number(value);
 }
 
@@ -131,7 +131,7 @@ function pickSettings(values: PickOptionValues): { correction: GeometryCorrectio
   if (values.band !== undefined) {
     const match = /^(\d+(?:\.\d+)?)-(\d+(?:\.\d+)?)$/.exec(values.band.trim());
     if (match === null || Number(match[1]) <= 0 || Number(match[1]) >= Number(match[2])) {
-      throw new UsageError(`--band takes LOW-HIGH in Hz with 0 < LOW < HIGH, e.g. 20-250, got "${values.band}"`);
+      throw new UsageError(`--band takes LOW-HIGH in Hz with 0 < LOW < HIGH, e.g. 15-800, got "${values.band}"`);
     }
     bandPass = { low: Number(match[1]), high: Number(match[2]) };
   }
@@ -148,9 +148,10 @@ function pickSettings(values: PickOptionValues): { correction: GeometryCorrectio
   if ((firstReceiverX === undefined) !== (receiverSpacing === undefined)) throw new UsageError('--first-receiver-x and --receiver-spacing go together; give both or neither');
   if (receiverSpacing === 0) throw new UsageError('--receiver-spacing cannot be 0');
   const sourceX = metres(values['source-x'], '--source-x');
+  if (values.shot !== undefined && (values.shot.trim() === '' || values.shot.trim().length > 200)) throw new UsageError('--shot takes a name of 1 to 200 characters');
   return {
     correction: {
-      ...(values.shot !== undefined ? { shot: values.shot } : {}),
+      ...(values.shot !== undefined ? { shot: values.shot.trim() } : {}),
       ...(sourceX !== undefined ? { sourceX } : {}),
       ...(firstReceiverX !== undefined && receiverSpacing !== undefined ? { firstReceiverX, receiverSpacing } : {}),
     },
@@ -194,7 +195,7 @@ function pickFiles(files: readonly string[], values: PickOptionValues): PickSet 
     }
     picks.push(...picked.picks);
   }
-  const { pickSet, warnings } = pickSetOf(picks);
+  const { pickSet, warnings } = pickSetOf(picks, { shots: [...seen.keys()] });
   for (const warning of warnings) process.stderr.write(`slopebreak: note: ${warning.message}; ${warning.fix}\n`);
   if (pickSet.picks.length === 0) {
     process.stderr.write('slopebreak: no shot kept enough picks to make a pick table\n');
@@ -203,7 +204,15 @@ function pickFiles(files: readonly string[], values: PickOptionValues): PickSet 
   return pickSet;
 }
 
+/** `--help` or `-h` among a command's arguments: print the usage and succeed. */
+function wantsHelp(args: readonly string[]): boolean {
+  if (!args.some((arg) => arg === '--help' || arg === '-h')) return false;
+  process.stdout.write(USAGE);
+  return true;
+}
+
 function runPick(args: readonly string[]): number {
+  if (wantsHelp(args)) return 0;
   const { values, positionals } = parseArgs({ args: [...args], allowPositionals: true, options: PICK_OPTIONS });
   if (positionals.length === 0) throw new UsageError('pick takes one or more gather files (SEG-2 or SEG-Y)');
   const pickSet = pickFiles(positionals, values);
@@ -223,7 +232,7 @@ function runPick(args: readonly string[]): number {
     process.stderr.write(`slopebreak: cannot write ${values.out}: ${(error as Error).message}; check the folder exists and is writable\n`);
     return 1;
   }
-  process.stderr.write(`slopebreak: ${pickSet.picks.length} picks of ${pickSet.shotIds.length} shots written to ${values.out}\n`);
+  process.stderr.write(`slopebreak: ${pickSet.picks.length} picks of ${pickSet.shotIds.length} shot${pickSet.shotIds.length === 1 ? '' : 's'} written to ${values.out}\n`);
   return 0;
 }
 
@@ -243,6 +252,7 @@ function isGatherFile(path: string): boolean {
 }
 
 function runInterpret(args: readonly string[]): number {
+  if (wantsHelp(args)) return 0;
   const { values, positionals } = parseArgs({
     args: [...args],
     allowPositionals: true,
@@ -310,6 +320,8 @@ function runInterpret(args: readonly string[]): number {
     if (picked === null) return 1;
     pickSet = picked;
   } else {
+    const given = Object.keys(PICK_OPTIONS).filter((name) => values[name as keyof typeof PICK_OPTIONS] !== undefined);
+    if (given.length > 0) throw new UsageError(`--${given[0]} is a picking option, and ${file} is a pick table (already picked); give it gathers (SEG-2 or SEG-Y), or leave it out`);
     const read = readTableFile(file);
     if (read === null) return 1;
     pickSet = read;

@@ -8,9 +8,9 @@ import { closeSync, openSync, readFileSync, readSync, statSync } from 'node:fs';
 import { basename } from 'node:path';
 import { GATHER_SNIFF_BYTES, identifyGather, readGather } from '../lib/gathers/formats.js';
 import type { GatherTrace } from '../lib/gathers/gather.js';
-import { fileStemOf, pickGather, pickShot } from '../lib/gathers/pick-gathers.js';
+import { fileStemOf, pickGather, pickShotOutcome } from '../lib/gathers/pick-gathers.js';
 import { shotPicks } from '../lib/gathers/gather-picks.js';
-import { placeShot, shotKeyOf, shotRuns, type GeometryCorrection } from '../lib/gathers/shot-gathers.js';
+import { completenessWarnings, placeShot, shotKeyOf, shotRuns, type GeometryCorrection } from '../lib/gathers/shot-gathers.js';
 import { openSegy } from '../lib/gathers/segy/index.js';
 import type { PickingOptions } from '../lib/picking/index.js';
 import type { Pick } from '../lib/picks/types.js';
@@ -131,12 +131,15 @@ function streamSegy(path: string, stem: string, correction: GeometryCorrection, 
       const placed = placeShot(run, shotNumber, shotCount, stem, correction);
       if (!placed.ok) return placed;
       warnings.push(...placed.warnings);
-      const picked = pickShot(placed.value, picking);
+      const outcome = pickShotOutcome(placed.value, picking);
+      if (!outcome.ok) return outcome;
+      const picked = outcome.value;
       const made = shotPicks(placed.value, picked.firstBreaks, picks.length + 1);
       picks.push(...made);
       shots.push(counted(placed.value.shot, placed.value.traces.length, picked.firstBreaks, made.length));
     }
     if (failure.problems !== null) return { ok: false, problems: failure.problems };
+    warnings.push(...completenessWarnings('SEG-Y', (name) => String(file.binaryHeader[name as keyof typeof file.binaryHeader] ?? ''), file.traceCount, shots));
     return { ok: true, format: 'SEG-Y', shots, picks, warnings: dedupe(warnings) };
   } finally {
     source.close();

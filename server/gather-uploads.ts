@@ -20,7 +20,8 @@ import { sanitiseFileName, type ReceivedFile } from './uploads.js';
 /** A number sent as a form field or query parameter (text), or as JSON. */
 const Metres = z.union([z.number(), z.string().trim().regex(/^-?\d+(\.\d+)?$/, 'a number of metres such as 12.5').transform(Number)])
   .refine((value) => Number.isFinite(value) && Math.abs(value) <= 1e7, 'a position within 10,000 km');
-const Positive = (what: string) => z.union([z.number(), z.string().trim().regex(/^\d+(\.\d+)?$/, what).transform(Number)]).refine((value) => value > 0, `${what}, more than 0`);
+const Positive = (what: string) => z.union([z.number(), z.string().trim().regex(/^\d+(\.\d+)?$/, what).transform(Number)])
+  .refine((value) => Number.isFinite(value) && value > 0 && value <= 1e6, `${what}, more than 0 and at most 1,000,000`);
 const Flag = z.union([z.boolean(), z.enum(['true', 'false']).transform((text) => text === 'true')]);
 
 /** What a gather upload may say besides its files (all optional). Frequencies Hz, times s, positions m. */
@@ -90,6 +91,8 @@ export interface StoredGatherSummary {
   readonly sourceX: number;
   readonly sampleInterval: number;
   readonly sampleCount: number;
+  /** Time of the last sample of the longest-reaching trace after the shot, s. */
+  readonly recordEnd: number;
   /** The correction and picking options it was read and picked with (re-applied for display). */
   readonly correction: GeometryCorrection;
   readonly picking: PickingOptions;
@@ -98,6 +101,10 @@ export interface StoredGatherSummary {
     readonly receiverX: number;
     readonly receiverElevation: number | null;
     readonly offset: number;
+    /** The trace's own time axis: first sample (s after the shot), interval (s) and sample count. */
+    readonly delay: number;
+    readonly sampleInterval: number;
+    readonly sampleCount: number;
     readonly automatic: StoredFirstBreak;
   }[];
 }
@@ -108,11 +115,13 @@ function summaryOf(fileName: string, format: GatherFormatName, picked: PickedSho
     fileName, format, shot: gather.shot, shotNumber: gather.shotNumber, sourceX: gather.sourceX,
     sampleInterval: gather.traces[0]!.trace.sampleInterval,
     sampleCount: gather.traces.reduce((most, placed) => Math.max(most, placed.trace.samples.length), 0),
+    recordEnd: gather.traces.reduce((latest, placed) => Math.max(latest, placed.trace.delay + (placed.trace.samples.length - 1) * placed.trace.sampleInterval), Number.NEGATIVE_INFINITY),
     correction, picking,
     traces: gather.traces.map((placed, index) => {
       const pick = picked.firstBreaks[index]!;
       return {
         receiver: placed.receiver, receiverX: placed.receiverX, receiverElevation: placed.receiverElevation, offset: placed.offset,
+        delay: placed.trace.delay, sampleInterval: placed.trace.sampleInterval, sampleCount: placed.trace.samples.length,
         automatic: { time: pick.time, sigma: pick.sigma, confidence: pick.confidence, lowConfidence: pick.lowConfidence, rejected: pick.rejected, note: pick.note },
       };
     }),
@@ -180,16 +189,26 @@ export function pickUploadedGathers(
     });
   }
   const merged = mergeShotPicks(earlierPicks, allShots);
-  return { files: picked, pickSet: merged.pickSet, warnings: [...warnings, ...merged.warnings] };
+  if (merged.usable.size === 0) {
+    throw problemsError('gather-no-picks', 'the gather upload', merged.warnings.map((warning) => ({ ...warning, severity: 'error' as const })));
+  }
+  // A shot that gave too few picks is not stored as a gather: its earlier gather and picks stay current.
+  const stored = picked.map((entry) => ({ ...entry, shots: entry.shots.filter((shot) => merged.usable.has(shot.shot)) }));
+  return { files: stored, pickSet: merged.pickSet, warnings: [...warnings, ...merged.warnings] };
 }
 
 /** The shot of a stored gather file, placed again with the correction it was stored with. */
 export function storedShot(bytes: Uint8Array, summary: StoredGatherSummary): ShotGather {
+  const unreadable = (why: string) => new ApiError({
+    code: 'gather-unreadable', status: 409,
+    message: `the stored gather ${JSON.stringify(summary.fileName)} ${why} with this version of slopebreak`,
+    fix: 'upload the gather again',
+  });
   const read = readGather(bytes);
-  if (!read.ok) throw new Error(`stored gather ${summary.fileName} no longer reads: ${read.problems[0]?.message ?? ''}`);
+  if (!read.ok) throw unreadable(`no longer reads (${read.problems[0]?.message ?? 'refused'})`);
   const shots = shotGathers(read.value, fileStemOf(summary.fileName), summary.correction);
-  if (!shots.ok) throw new Error(`stored gather ${summary.fileName} no longer splits into shots: ${shots.problems[0]?.message ?? ''}`);
+  if (!shots.ok) throw unreadable(`no longer splits into shots (${shots.problems[0]?.message ?? 'refused'})`);
   const shot = shots.value[summary.shotNumber - 1];
-  if (shot === undefined) throw new Error(`stored gather ${summary.fileName} has no shot ${summary.shotNumber}`);
+  if (shot === undefined) throw unreadable(`has no shot ${summary.shotNumber}`);
   return shot;
 }

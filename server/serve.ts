@@ -69,15 +69,27 @@ function loadSampleGathers(store: SurveyStore, name: string, paths: readonly str
     say(`Sample ${name} was not loaded: ${(error as Error).message}`);
     return false;
   }
+  if (picked.pickSet.picks.length === 0) {
+    say(`Sample ${name} was not loaded: no shot kept enough picks (${picked.warnings[0]?.message ?? 'none found'})`);
+    return false;
+  }
+  for (const warning of picked.warnings) say(`Sample ${name}: ${warning.message}`);
   const survey = store.createSurvey({ name, description: 'shot gathers, picked automatically', scale: picked.pickSet.suggestedScale });
-  store.addGatherUpload(survey.id, {
-    files: picked.files.map((entry) => ({
-      fileName: entry.fileName, mediaType: entry.mediaType, bytes: entry.file.bytes,
-      shots: entry.shots.map((shot) => ({ shotNumber: shot.shotNumber, shot: shot.shot, summaryJson: JSON.stringify(shot.summary) })),
-    })),
-    pickSetJson: JSON.stringify(picked.pickSet),
-  }, survey.version);
-  interpretAndStore(store, survey.id, picked.pickSet, { scale: picked.pickSet.suggestedScale }, { sourceName: name, softwareVersion: softwareVersion() });
+  try {
+    store.addGatherUpload(survey.id, {
+      files: picked.files.map((entry) => ({
+        fileName: entry.fileName, mediaType: entry.mediaType, bytes: entry.file.bytes,
+        shots: entry.shots.map((shot) => ({ shotNumber: shot.shotNumber, shot: shot.shot, summaryJson: JSON.stringify(shot.summary) })),
+      })),
+      pickSetJson: JSON.stringify(picked.pickSet),
+    }, survey.version);
+    interpretAndStore(store, survey.id, picked.pickSet, { scale: picked.pickSet.suggestedScale }, { sourceName: name, softwareVersion: softwareVersion() });
+  } catch (error) {
+    // Leave no half-made sample behind: it would also stop the other samples loading next time.
+    store.deleteSurvey(survey.id, store.getSurvey(survey.id).version);
+    say(`Sample ${name} was not loaded: ${(error as Error).message}`);
+    return false;
+  }
   return true;
 }
 

@@ -170,6 +170,12 @@ function earthCurvatureLines(result: Interpretation, digits: Digits): string[] {
   if (!curvature) return [];
   const { units } = result;
   const out: string[] = [''];
+  // An engineering line is far too short for curvature to matter: say so in one line, in its units.
+  if (!curvature.applied && curvature.choice === 'auto' && units.scale === 'engineering' && curvature.sphericalLayers.length === 0) {
+    const limit = curvature.flatErrorOffset === null ? 'at no offset' : `only beyond ${fixed(curvature.flatErrorOffset / 1000, 0)} km`;
+    out.push(`EARTH CURVATURE  flat earth: the longest offset is ${fixed(curvature.maxOffset, digits.distanceDigits)} ${units.distance}; a flat earth would err by the pick sigma ${limit}`);
+    return out;
+  }
   out.push(`EARTH CURVATURE  ${curvature.applied ? 'spherical earth' : 'flat earth'} (asked: ${curvature.choice})`);
   out.push(...wrap(curvature.reason, '  '));
   out.push(

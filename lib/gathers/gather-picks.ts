@@ -52,9 +52,17 @@ export function shotPicks(shot: ShotGather, firstBreaks: readonly TraceFirstBrea
   return picks;
 }
 
+export interface PickSetOptions {
+  /** The pick set these picks were edited from: its coordinate system and scale are kept. */
+  readonly base?: PickSet;
+  /** Shots that were picked, so that one left with no pick at all is warned about too. */
+  readonly shots?: readonly string[];
+}
+
 /** A pick set from picks already made; picks of shots with too few are dropped with a warning. */
-export function pickSetOf(picks: readonly Pick[]): { pickSet: PickSet; warnings: Problem[] } {
+export function pickSetOf(picks: readonly Pick[], options: PickSetOptions = {}): { pickSet: PickSet; warnings: Problem[] } {
   const byShot = new Map<string, number>();
+  for (const shot of options.shots ?? []) byShot.set(shot, 0);
   for (const pick of picks) byShot.set(pick.shot, (byShot.get(pick.shot) ?? 0) + 1);
   const warnings: Problem[] = [];
   for (const [shot, count] of byShot) {
@@ -73,9 +81,9 @@ export function pickSetOf(picks: readonly Pick[]): { pickSet: PickSet; warnings:
     pickSet: {
       picks: kept,
       shotIds,
-      coordinateSystem: 'line',
+      coordinateSystem: options.base?.coordinateSystem ?? 'line',
       columns: {
-        receiver: true,
+        receiver: has((pick) => pick.receiver),
         sigma: has((pick) => pick.sigma),
         branch: has((pick) => pick.branch),
         sourceElevation: has((pick) => pick.sourceElevation),
@@ -83,7 +91,7 @@ export function pickSetOf(picks: readonly Pick[]): { pickSet: PickSet; warnings:
         sourceDepth: has((pick) => pick.sourceDepth),
         uphole: has((pick) => pick.uphole),
       },
-      suggestedScale: longest >= CRUSTAL_OFFSET_METRES ? 'crustal' : 'engineering',
+      suggestedScale: options.base?.suggestedScale ?? (longest >= CRUSTAL_OFFSET_METRES ? 'crustal' : 'engineering'),
     },
     warnings,
   };

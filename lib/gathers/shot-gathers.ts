@@ -28,6 +28,9 @@ export interface GeometryCorrection {
   readonly receiverSpacing?: number;
 }
 
+/** Longest shot name kept (the pick table and the store take up to 200 characters). */
+export const MAX_SHOT_NAME = 200;
+
 /** One trace placed on the line. */
 export interface PlacedTrace {
   readonly trace: GatherTrace;
@@ -185,6 +188,39 @@ export function placeShot(
   return { ok: true, value: shot, warnings };
 }
 
+/**
+ * Warnings when a SEG-Y file holds fewer traces than its binary header declares — the total
+ * (rev 2, bytes 3513–3520) or the traces per ensemble (bytes 3213–3214) — as a file cut short
+ * between two traces does: the reader cannot tell such a file from a shorter one by its length.
+ */
+export function completenessWarnings(
+  format: Gather['format'],
+  header: (name: string) => string | undefined,
+  traceCount: number,
+  shots: readonly { readonly shot: string; readonly traceCount: number }[],
+): Problem[] {
+  if (format !== 'SEG-Y') return [];
+  const declared = (name: string) => {
+    const value = Number(header(name) ?? '0');
+    return Number.isSafeInteger(value) && value > 0 ? value : null;
+  };
+  const warnings: Problem[] = [];
+  const inFile = declared('numberOfTracesInFile');
+  if (inFile !== null && traceCount < inFile) {
+    warnings.push(problem('gather-traces-missing', `the file holds ${traceCount} traces, and its binary header (bytes 3513–3520) declares ${inFile}: it may have been cut short`,
+      'copy the file again from the recorder or the original medium', 'warning'));
+  }
+  const perEnsemble = declared('dataTracesPerEnsemble');
+  if (perEnsemble !== null) {
+    for (const shot of shots) {
+      if (shot.traceCount >= perEnsemble) continue;
+      warnings.push(problem('gather-shot-incomplete', `shot ${JSON.stringify(shot.shot)} has ${shot.traceCount} traces, and the binary header (bytes 3213–3214) declares ${perEnsemble} per ensemble: traces may be missing (a file cut short, or channels left out)`,
+        'check the file is complete; picks are made on the traces there are', 'warning'));
+    }
+  }
+  return warnings;
+}
+
 /** Every shot of a gather, placed on the line. `fileStem` names a file's lone shot. */
 export function shotGathers(gather: Gather, fileStem: string, correction: GeometryCorrection = {}): ShotGathersOutcome {
   const runs = [...shotRuns(gather.traces)];
@@ -203,8 +239,14 @@ export function shotGathers(gather: Gather, fileStem: string, correction: Geomet
     shots.push(placed.value);
     warnings.push(...placed.warnings);
   }
+  warnings.push(...completenessWarnings(gather.format, (name) => gather.metadata.get(name), gather.traces.length,
+    shots.map((shot) => ({ shot: shot.shot, traceCount: shot.traces.length }))));
   const names = new Set<string>();
   for (const shot of shots) {
+    if (shot.shot.trim() === '' || shot.shot.length > MAX_SHOT_NAME) {
+      return { ok: false, problems: [problem('gather-shot-name-invalid', `shot ${shots.indexOf(shot) + 1}'s name ${JSON.stringify(shot.shot.slice(0, 40))}${shot.shot.length > 40 ? '…' : ''} is ${shot.shot.trim() === '' ? 'empty' : `${shot.shot.length} characters long`}; a shot name has 1 to ${MAX_SHOT_NAME} characters`,
+        'name the shot (the shot-name correction), or correct the source station in the headers')] };
+    }
     if (names.has(shot.shot)) {
       return { ok: false, problems: [problem('gather-shot-repeated', `shot ${JSON.stringify(shot.shot)} appears twice in the file, separated by other shots`, 'keep each shot\'s traces together in the file')] };
     }

@@ -329,7 +329,7 @@ export function createSurveyStore(db: Database, options: StoreOptions = {}) {
     return { version };
   });
   const gatherColumns = 'id, survey_id AS surveyId, upload_id AS uploadId, shot_number AS shotNumber, shot, summary_json AS summaryJson, created_at AS createdAt';
-  const selectGathers = db.prepare<[string], ShotGatherRecord>(`SELECT ${gatherColumns} FROM shot_gathers WHERE survey_id = ? ORDER BY created_at, upload_id, shot_number`);
+  const selectGathers = db.prepare<[string], ShotGatherRecord>(`SELECT ${gatherColumns} FROM shot_gathers WHERE survey_id = ? ORDER BY rowid`);
   const selectGather = db.prepare<[string, string], ShotGatherRecord>(`SELECT ${gatherColumns} FROM shot_gathers WHERE survey_id = ? AND id = ?`);
 
   const selectCurrentPickSet = db.prepare<[string], PickSetRecord>(

@@ -106,6 +106,13 @@ describe('gather uploads', () => {
     expect(rowCount(harness.db, 'uploads')).toBe(0);
   });
 
+  it('when the band-pass reaches past the traces\' Nyquist frequency (4 kHz at 0.125 ms), then 422 says so and nothing is stored', async () => {
+    const response = await uploadGathers([CORRAN_FILES[0]!], 1, { bandLow: '100', bandHigh: '6000' }).expect(422);
+    expect(response.body.error.details.problems[0].code).toBe('picking-options-invalid');
+    expect(response.body.error.details.problems[0].message).toMatch(/Nyquist/);
+    expect(rowCount(harness.db, 'uploads')).toBe(0);
+  });
+
   it('when a multipart upload gives no length, then 411; when it is over the request limit, 413', async () => {
     const small = openHarness({ maxUploadRequestBytes: 50_000 });
     try {

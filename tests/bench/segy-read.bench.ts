@@ -27,7 +27,7 @@
  * machine of this size. Pass 1 is printed apart from the warm passes 2 and 3 all the same.
  */
 import { closeSync, mkdtempSync, openSync, readSync, rmSync, statfsSync, writeSync } from 'node:fs';
-import { loadavg, tmpdir } from 'node:os';
+import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { BINARY_HEADER_FIELDS, TRACE_HEADER_FIELDS, type BinaryHeaderFieldName, type TraceHeaderFieldName } from '../../lib/gathers/segy/layout.js';
 import { openSegy, type SegyTrace } from '../../lib/gathers/segy/read.js';
@@ -394,7 +394,9 @@ function main(): void {
         `warm passes ${segy.slice(1).map((value, index) => (value / raw[index + 1]!).toFixed(3)).join(', ')}`,
     );
     console.log(`peak resident memory of the process: ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MiB (process.resourceUsage().maxRSS, writing included)`);
-    console.log(`load average at the end ${loadavg().map((value) => value.toFixed(2)).join(', ')} (above the machine's core count, other work shared the CPUs: trust the cpu seconds more than wall)`);
+    const load = loadavg();
+    const busy = load[0]! > availableParallelism();
+    console.log(`load average at the end ${load.map((value) => value.toFixed(2)).join(', ')}${busy ? " (above the machine's core count: other work shared the CPUs, trust the cpu seconds more than wall)" : ''}`);
   } finally {
     rmSync(folder, { recursive: true, force: true });
   }

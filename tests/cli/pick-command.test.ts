@@ -61,13 +61,22 @@ describe('slopebreak pick', () => {
   });
 
   it('refuses a bad option with exit 2 and a message naming it', () => {
-    for (const args of [['--band', '300-30'], ['--agc', '-1'], ['--estimator', 'guess'], ['--first-receiver-x', '0']]) {
+    for (const args of [['--band', '300-30'], ['--agc', '-1'], ['--estimator', 'guess'], ['--first-receiver-x', '0'], ['--shot', ' '], ['--source-x', '9'.repeat(400)]]) {
       const run = slopebreak('pick', CORRAN_FILES[0]!, ...args);
       expect(run.status, args.join(' ')).toBe(2);
       expect(run.stderr).toContain(args[0]!);
     }
     expect(slopebreak('pick').status).toBe(2);
+    const help = slopebreak('pick', '--help');
+    expect(help.status).toBe(0);
+    expect(help.stdout).toContain('pick options');
     expect(slopebreak('pick', ...CORRAN_FILES, '--shot', 'x').status).toBe(2);
+  });
+
+  it('refuses a band-pass past the Nyquist frequency with exit 1 and a message naming it', () => {
+    const run = slopebreak('pick', CORRAN_FILES[0]!, '--band', '100-6000');
+    expect(run.status).toBe(1);
+    expect(run.stderr).toMatch(/Nyquist/);
   });
 
   it('refuses a truncated gather and a file that is no gather with exit 1, naming the file, and writes nothing', () => {

@@ -12,6 +12,7 @@ import { readGather } from '../../lib/gathers/formats.js';
 import type { Gather } from '../../lib/gathers/gather.js';
 import { shotGathers } from '../../lib/gathers/shot-gathers.js';
 import { findPython } from '../helpers/python.js';
+import { writeSegy } from '../tools/write-segy.js';
 
 const SOURCE = 'python3-segyio via tests/gathers/make-segyio-shots.py';
 
@@ -114,5 +115,34 @@ describe('shotGathers without positions in the headers', () => {
       expect(outcome.problems[0]!.code).toBe('gather-receiver-position-missing');
       expect(outcome.problems[0]!.fix).toMatch(/first receiver position and the receiver spacing/);
     }
+  });
+});
+
+describe('a SEG-Y file cut short between two traces', () => {
+  // Written by tests/tools/write-segy.ts from the byte positions of SEG-Y rev 2.0 (SEG 2017):
+  // bytes 3213–3214 traces per ensemble, 3513–3520 traces in the file.
+  const traces = [1, 2, 3].flatMap((record) => Array.from({ length: 8 }, (_, k) => ({
+    samples: new Float32Array(50), fieldRecord: record, channel: k + 1, sourcePoint: record,
+    sourceX: 10 * record, receiverX: 2 * (k + 1), sourceElevation: 0, receiverElevation: 0, sourceDepth: 0,
+  })));
+  const whole = writeSegy({ textLines: ['C 1 test'], sampleInterval: 0.0005, traces });
+  const traceBytes = 240 + 4 * 50;
+
+  it('reads the traces there are and warns that the header declares more, naming the shot left incomplete', () => {
+    const cut = whole.subarray(0, whole.length - 3 * traceBytes);
+    const read = readGather(cut);
+    if (!read.ok) throw new Error(read.problems[0]!.message);
+    const outcome = shotGathers(read.value, 'cut');
+    if (!outcome.ok) throw new Error(outcome.problems[0]!.message);
+    expect(outcome.value.map((shot) => shot.traces.length)).toEqual([8, 8, 5]);
+    expect(outcome.warnings.map((warning) => warning.code).sort()).toEqual(['gather-shot-incomplete', 'gather-traces-missing']);
+    expect(outcome.warnings.find((warning) => warning.code === 'gather-shot-incomplete')!.message).toContain('"SP3" has 5 traces');
+  });
+
+  it('gives no such warning for the whole file', () => {
+    const read = readGather(whole);
+    if (!read.ok) throw new Error(read.problems[0]!.message);
+    const outcome = shotGathers(read.value, 'whole');
+    expect(outcome.ok && outcome.warnings).toEqual([]);
   });
 });

@@ -65,6 +65,7 @@ export function writeSegy(spec: SegyFileToWrite): Uint8Array {
   bytes[at(3502)] = 0;
   view.setInt16(at(3503), 1, false); // fixed-length traces
   view.setInt16(at(3505), 0, false); // no extended textual headers
+  view.setBigUint64(at(3513), BigInt(spec.traces.length), false); // traces in the file (rev 2)
 
   spec.traces.forEach((trace, index) => {
     const start = TEXT_BYTES + BINARY_BYTES + index * traceBytes;
