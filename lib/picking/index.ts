@@ -26,7 +26,7 @@ export { traceOnset, onsetInWindow, amplitudeRatioAt, typicalWindowEnergy, MIN_P
 
 // Quality and the neighbour check
 export { pickQuality, CONFIDENCE_MIDPOINT_DB, CONFIDENCE_WIDTH_DB, SIGMA_JITTER_FACTOR, SIGMA_RISE_FRACTION, MIN_SNR, type OnsetMeasures, type PickQuality } from './pick-quality.js';
-export { neighbourConsistency, medianSlopePrediction, MIN_ANCHORS, type ConsistencyItem, type ConsistencyOptions, type ConsistencyVerdict } from './consistency.js';
+export { neighbourConsistency, medianSlopePrediction, earliestTowardsShot, earliestAwayFromShot, earliestBetween, MIN_ANCHORS, REACH_NEAR, REACH_FAR, type ConsistencyItem, type ConsistencyOptions, type ConsistencyVerdict } from './consistency.js';
 
 // Running sums shared by the characteristic functions
 export { prefixSums, windowSum, CANCELLATION_FLOOR } from './running-sums.js';

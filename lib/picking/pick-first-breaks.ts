@@ -79,8 +79,8 @@ function onsetTime(trace: PickableTrace, index: number): number {
   return trace.delay + (Math.max(index, 0.5) - 0.5) * trace.sampleInterval;
 }
 
-function pickOf(trace: PickableTrace, traceIndex: number, onset: TraceOnset): WorkingPick {
-  const quality = pickQuality(onset, trace.sampleInterval);
+function pickOf(trace: PickableTrace, traceIndex: number, onset: TraceOnset, options: PickingOptions): WorkingPick {
+  const quality = pickQuality(onset, trace.sampleInterval, options.aicBefore + options.aicAfter);
   return { traceIndex, time: onsetTime(trace, onset.index), sigma: quality.sigma, confidence: quality.confidence, ratioDb: quality.amplitudeRatioDb, rejected: false, note: onset.note };
 }
 
@@ -106,7 +106,7 @@ export function pickFirstBreaks(traces: readonly PickableTrace[], options: Parti
     conditioned.push(samples);
     const outcome = traceOnset(samples, trace.sampleInterval, resolved);
     if (!outcome.ok) return { traceIndex, time: null, sigma: null, confidence: 0, ratioDb: null, rejected: true, note: outcome.reason };
-    return pickOf(trace, traceIndex, outcome.onset);
+    return pickOf(trace, traceIndex, outcome.onset, resolved);
   });
 
   if (resolved.consistency) checkNeighbours(traces, picks, conditioned, resolved);
@@ -135,14 +135,16 @@ function checkNeighbours(traces: readonly PickableTrace[], picks: WorkingPick[],
     usable: !pick.rejected && pick.time !== null,
     anchor: pick.confidence >= options.lowConfidenceBelow,
   }));
-  const verdicts = neighbourConsistency(items, { neighbours: options.neighbours, threshold: options.consistencyThreshold });
+  const verdicts = neighbourConsistency(items, { neighbours: options.neighbours, threshold: options.consistencyThreshold, offsets: byOffset });
   verdicts.forEach((verdict, index) => {
     const pick = picks[index] as WorkingPick;
     if (!verdict.rejected || verdict.prediction === null || verdict.misfit === null || verdict.tolerance === null) return;
     const trace = traces[index] as PickableTrace;
     const direction = verdict.misfit > 0 ? 'later' : 'earlier';
     const where = byOffset ? 'its neighbours predict' : 'its neighbours in trace order predict (offsets unknown)';
-    const misfitText = `${milliseconds(Math.abs(verdict.misfit))} ${direction} than ${where} (tolerance ${milliseconds(verdict.tolerance)})`;
+    const misfitText = verdict.earliest !== null && verdict.misfit < 0
+      ? `${milliseconds(verdict.earliest - (pick.time as number))} earlier than the earliest its neighbours allow (${milliseconds(verdict.earliest)} at this offset; tolerance ${milliseconds(verdict.tolerance)})`
+      : `${milliseconds(Math.abs(verdict.misfit))} ${direction} than ${where} (tolerance ${milliseconds(verdict.tolerance)})`;
     const samples = conditioned[index];
     if (options.repick && samples !== null && samples !== undefined) {
       const dt = trace.sampleInterval;
@@ -150,7 +152,7 @@ function checkNeighbours(traces: readonly PickableTrace[], picks: WorkingPick[],
       const halfWidth = Math.max(verdict.tolerance, options.energyWindow / 2) / dt;
       const onset = onsetInWindow(samples, dt, options, centre, Math.max(halfWidth, 4));
       if (onset !== null) {
-        const candidate = pickOf(trace, index, onset);
+        const candidate = pickOf(trace, index, onset, options);
         const candidateMisfit = (candidate.time as number) - verdict.prediction;
         // The new pick must agree with the prediction by the same tolerance, and show an onset of
         // its own: a split in the coda of a wrong prediction has no contrast.

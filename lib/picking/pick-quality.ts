@@ -33,6 +33,13 @@
  * while the errors do not. SNR is floored at `MIN_SNR` so a pick with no measurable contrast gets
  * a large, finite sigma.
  *
+ * **Doubt.** When the onset test failed, the pick is a guess the trace's sharpest peak placed,
+ * and with a probability of about 1 − confidence it is no arrival at all but anywhere in the window
+ * searched, W = `doubtWindow` (the picker passes the AIC window, aicBefore + aicAfter): its variance
+ * gains ((1 − confidence)·W)²/12 (the SD of a uniform spread over W), so a pick of confidence ≈ 0
+ * carries a sigma of about W/√12 (≈ 5.8 ms for 20 ms), not the sub-millisecond timing sigma.
+ * Triggered picks gain nothing (their calibration above stands).
+ *
  * Edges: R infinite (silence before the onset, a zero-padded start) counts as 60 dB and SNR 1000;
  * R ≤ 1 gives SNR = `MIN_SNR`.
  *
@@ -68,7 +75,7 @@ export interface PickQuality {
 }
 
 /** Confidence and sigma of an onset (module comment). */
-export function pickQuality(measures: OnsetMeasures, sampleInterval: number): PickQuality {
+export function pickQuality(measures: OnsetMeasures, sampleInterval: number, doubtWindow = 0): PickQuality {
   const ratio = measures.amplitudeRatio;
   const ratioDb = Number.isFinite(ratio) ? 20 * Math.log10(Math.max(ratio, 1e-6)) : 60;
   const logistic = 1 / (1 + Math.exp(-(ratioDb - CONFIDENCE_MIDPOINT_DB) / CONFIDENCE_WIDTH_DB));
@@ -77,6 +84,8 @@ export function pickQuality(measures: OnsetMeasures, sampleInterval: number): Pi
   const rise = measures.riseSamples * sampleInterval;
   const jitter = (SIGMA_JITTER_FACTOR * rise) / snr;
   const floor = SIGMA_RISE_FRACTION * rise;
-  const sigma = Math.sqrt((sampleInterval * sampleInterval) / 12 + jitter * jitter + floor * floor);
+  // Doubt (module comment): a pick whose onset test failed may be no arrival at all.
+  const doubt = measures.triggered ? 0 : (1 - confidence) * doubtWindow;
+  const sigma = Math.sqrt((sampleInterval * sampleInterval) / 12 + jitter * jitter + floor * floor + (doubt * doubt) / 12);
   return { confidence, sigma: Math.max(sigma, sampleInterval / 2), amplitudeRatioDb: ratioDb };
 }

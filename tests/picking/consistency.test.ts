@@ -77,8 +77,8 @@ describe('neighbourConsistency', () => {
   it('never uses or judges unusable picks and picks without a time; leaves lone picks unjudged', () => {
     const list = items([0, 2, 4, 6, 8], [0.002, null, 0.1, 0.008, 0.01]).map((item, index) => (index === 2 ? { ...item, usable: false } : item));
     const verdicts = neighbourConsistency(list, OPTIONS);
-    expect(verdicts[1]).toEqual({ prediction: null, misfit: null, tolerance: null, rejected: false });
-    expect(verdicts[2]).toEqual({ prediction: null, misfit: null, tolerance: null, rejected: false });
+    expect(verdicts[1]).toEqual({ prediction: null, misfit: null, tolerance: null, earliest: null, rejected: false });
+    expect(verdicts[2]).toEqual({ prediction: null, misfit: null, tolerance: null, earliest: null, rejected: false });
     expect(verdicts.some((verdict) => verdict.rejected)).toBe(false);
     const lone = neighbourConsistency(items([0, 5], [0.001, 0.5]), OPTIONS);
     expect(lone.every((verdict) => verdict.prediction === null && !verdict.rejected)).toBe(true);
